@@ -1,0 +1,41 @@
+"""Conductor sizes.
+
+References
+----------
+ASTM B258-18, Standard Specification for Standard Nominal Diameters and Cross-Sectional Areas
+of AWG Sizes of Solid Round Wires Used as Electrical Conductors: d = 0.127 mm · 92^((36 − n)/39).
+"""
+
+from __future__ import annotations
+
+import math
+
+
+def parse_awg(text: str) -> int:
+    """The gauge number of ``"10"``, ``"0"``, ``"00"``, ``"2/0"`` (0 AWG is 0, 2/0 is −1, 4/0 is −3)."""
+    t = text.strip()
+    if "/" in t:
+        n, _, zero = t.partition("/")
+        if zero.strip() == "0" and n.strip().isdigit() and 1 <= int(n) <= 4:
+            return 1 - int(n)
+    elif t and set(t) == {"0"} and len(t) <= 4:
+        return 1 - len(t)
+    elif t.isdigit() and 0 <= int(t) <= 40:
+        return int(t)
+    raise ValueError(f"expected an AWG gauge from 4/0 to 40, found {text.strip()!r}")
+
+
+def awg_diameter(n: float) -> float:
+    """Diameter of solid wire of gauge ``n`` [m] (ASTM B258 formula; 0000 is −3)."""
+    return 0.127e-3 * 92 ** ((36 - n) / 39)
+
+
+def awg_area(n: float) -> float:
+    """Cross-section area of gauge ``n`` [m²]."""
+    return math.pi / 4 * awg_diameter(n) ** 2
+
+
+def area_to_awg(area: float) -> float:
+    """The (fractional) gauge whose area is ``area`` [m²]: the inverse of :func:`awg_area`."""
+    d = math.sqrt(4 * area / math.pi)
+    return 36 - 39 * math.log(d / 0.127e-3, 92)
