@@ -1,0 +1,315 @@
+"""Protection and wiring: input current, fuse loading, prospective fault current, wire ampacity,
+the fuse window that carries the load and protects the wire, TVS window, fault response.
+
+References
+----------
+UL 248-14 (supplemental fuses); IEC 60127-1/-2 (miniature fuses); NFPA 70 (NEC) 2023, 210.20(A),
+215.3, 240.4(D) and Table 310.16; ASTM B258-18 (AWG sizes, via :mod:`reviewer.physics.wire`).
+The tables and their sources are in ``reviewer/tables/fuse_loading.toml`` and
+``reviewer/tables/nec_310_16.toml``.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from reviewer import tables
+from reviewer.physics import wire
+from reviewer.physics.bus import input_current
+
+__all__ = [
+    "input_current", "fuse_loading", "fuse_loading_limit", "fuse_rating_min",
+    "prospective_short_circuit_current", "wire_ampacity", "wire_max_protection",
+    "smallest_wire_for_fuse", "fuse_window", "tvs_window", "fault_current_at_response",
+]
+
+AREA_TOLERANCE = 0.01
+"""A conductor counts as a listed size when its area is within 1 % below it (so that '5.26 mm²'
+is 10 AWG) [unitless]."""
+
+
+def fuse_loading(i_continuous: Any, rating: Any) -> Any:
+    """Continuous current as a fraction of the fuse rating.
+
+    Parameters
+    ----------
+    i_continuous : float or ndarray
+        Continuous current through the fuse [A].
+    rating : float or ndarray
+        Fuse current rating [A].
+
+    Returns
+    -------
+    float or ndarray
+        ``I / I_rating`` [unitless].
+
+    References
+    ----------
+    Definition; the limits it is judged against are in :func:`fuse_loading_limit`.
+    """
+    return i_continuous / rating
+
+
+def fuse_loading_limit(standard: str) -> float:
+    """Highest continuous loading of a fuse made to ``standard``.
+
+    Parameters
+    ----------
+    standard : str
+        ``"ul248"`` (0.75), ``"nec"`` (0.80, the code's 125 % sizing), ``"iec60127"`` (1.0),
+        ``"automotive"`` (0.80) or ``"other"`` (0.75, the strictest).
+
+    Returns
+    -------
+    float
+        The limit [unitless]; each entry's basis and certainty are in the table file.
+
+    References
+    ----------
+    ``reviewer/tables/fuse_loading.toml``: UL 248-14; NFPA 70 210.20(A) and 215.3; IEC 60127;
+    ISO 8820-3 / SAE J1284 with common practice.
+    """
+    entries = tables.load("fuse_loading")["standards"]
+    if standard not in entries:
+        raise KeyError(f"no fuse loading limit for {standard!r}; known: {', '.join(entries)}")
+    return float(entries[standard]["limit"])
+
+
+def fuse_rating_min(i_continuous: Any, standard: str) -> Any:
+    """Smallest fuse rating that carries a continuous current within its standard's limit.
+
+    Parameters
+    ----------
+    i_continuous : float or ndarray
+        Continuous current [A].
+    standard : str
+        Fuse standard, as in :func:`fuse_loading_limit`.
+
+    Returns
+    -------
+    float or ndarray
+        ``I / limit`` [A].
+
+    References
+    ----------
+    As :func:`fuse_loading_limit`.
+    """
+    return i_continuous / fuse_loading_limit(standard)
+
+
+def prospective_short_circuit_current(v_source: Any, r_internal: Any, r_circuit: Any = 0.0) -> Any:
+    """Prospective short-circuit current of a source behind its internal resistance.
+
+    Parameters
+    ----------
+    v_source : float or ndarray
+        Open-circuit (or highest) source voltage [V].
+    r_internal : float or ndarray
+        Internal resistance of the source [Ω].
+    r_circuit : float or ndarray
+        Resistance of the wiring and fuse up to the fault [Ω] (default 0: a bolted fault at the
+        terminals, the worst case).
+
+    Returns
+    -------
+    float or ndarray
+        ``I = V / (R_internal + R_circuit)`` [A]; for a battery often kiloamperes.
+
+    References
+    ----------
+    Ohm's law for a Thévenin source.
+    """
+    return v_source / (r_internal + r_circuit)
+
+
+def _nec() -> Any:
+    return tables.load("nec_310_16")["data"]
+
+
+def _column(insulation_temp: float) -> str | None:
+    cols = sorted((int(c) for c in _nec()["column"]), reverse=True)
+    for c in cols:
+        if insulation_temp >= c:
+            return str(c)
+    return None
+
+
+def _listed_index(area: float) -> int | None:
+    """Index of the largest listed size whose area the conductor reaches (within tolerance)."""
+    best = None
+    for i, g in enumerate(_nec()["awg"]):
+        if area >= wire.awg_area(wire.parse_awg(g)) * (1 - AREA_TOLERANCE):
+            best = i
+    return best
+
+
+def wire_ampacity(area: float, insulation_temp: float = 75.0) -> float | None:
+    """Allowable ampacity of a copper conductor by NEC Table 310.16.
+
+    A conductor between listed sizes (an mm² size, say) is rated as the next smaller listed size;
+    the column is the highest temperature rating not above the insulation's.
+
+    Parameters
+    ----------
+    area : float
+        Conductor cross-section [m²] (from an AWG size or mm², see :mod:`reviewer.physics.wire`).
+    insulation_temp : float
+        Temperature rating of the insulation [°C].
+
+    Returns
+    -------
+    float or None
+        Ampacity [A] (30 °C ambient, not more than three current-carrying conductors together);
+        ``None`` when the conductor is smaller than 14 AWG or the insulation is rated below 60 °C,
+        where the table says nothing. Battery cables run in free air carry more (Table 310.17);
+        this lookup is the conservative one.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, Table 310.16, copper; ASTM B258-18 for the AWG areas.
+    """
+    col, i = _column(insulation_temp), _listed_index(area)
+    if col is None or i is None:
+        return None
+    return float(_nec()["column"][col][i])
+
+
+def wire_max_protection(area: float, insulation_temp: float = 75.0) -> float | None:
+    """Largest fuse rating that protects a copper conductor: its ampacity, and for 14, 12 and
+    10 AWG no more than 15, 20 and 30 A.
+
+    Parameters
+    ----------
+    area : float
+        Conductor cross-section [m²].
+    insulation_temp : float
+        Temperature rating of the insulation [°C].
+
+    Returns
+    -------
+    float or None
+        The limit [A], or ``None`` where :func:`wire_ampacity` has no value.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, 240.4(D) and Table 310.16. The code's allowance to round up to the next
+    standard device rating (240.4(B)) is not taken: the review stays on the safe side.
+    """
+    amp = wire_ampacity(area, insulation_temp)
+    if amp is None:
+        return None
+    small = tables.load("nec_310_16")["small_conductor"]
+    i = _listed_index(area)
+    gauge = _nec()["awg"][i]
+    if gauge in small["awg"]:
+        amp = min(amp, float(small["max_protection"][small["awg"].index(gauge)]))
+    return amp
+
+
+def smallest_wire_for_fuse(fuse_rating: float, insulation_temp: float = 75.0) -> tuple[str, float] | None:
+    """The smallest listed copper conductor that a fuse of ``fuse_rating`` protects.
+
+    Parameters
+    ----------
+    fuse_rating : float
+        Fuse current rating [A].
+    insulation_temp : float
+        Temperature rating of the insulation [°C].
+
+    Returns
+    -------
+    tuple of (str, float) or None
+        The AWG size (``"10"``, ``"1/0"``) and its area [m²]; ``None`` when no size in the table
+        is enough.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, 240.4(D) and Table 310.16.
+    """
+    for g in _nec()["awg"]:
+        area = wire.awg_area(wire.parse_awg(g))
+        limit = wire_max_protection(area, insulation_temp)
+        if limit is not None and limit >= fuse_rating:
+            return g, area
+    return None
+
+
+def fuse_window(i_continuous: float, standard: str, wire_area: float | None,
+                insulation_temp: float = 75.0) -> tuple[float, float | None]:
+    """The range of fuse ratings that carries the load and protects the wire.
+
+    Parameters
+    ----------
+    i_continuous : float
+        Continuous current through the fuse [A].
+    standard : str
+        Fuse standard, as in :func:`fuse_loading_limit`.
+    wire_area : float or None
+        Cross-section of the conductor the fuse protects [m²]; ``None`` when not given.
+    insulation_temp : float
+        Temperature rating of the insulation [°C].
+
+    Returns
+    -------
+    tuple of (float, float or None)
+        ``(lowest, highest)`` rating [A]; the highest is ``None`` when the wire is not given or is
+        below the table. The window is empty when lowest > highest: a bigger wire is needed.
+
+    References
+    ----------
+    :func:`fuse_rating_min` and :func:`wire_max_protection`.
+    """
+    low = fuse_rating_min(i_continuous, standard)
+    high = None if wire_area is None else wire_max_protection(wire_area, insulation_temp)
+    return low, high
+
+
+def tvs_window(v_bus_max: Any, vds_rating: Any) -> tuple[Any, Any]:
+    """The standoff and clamp limits of a bus TVS (or snubber clamp).
+
+    Parameters
+    ----------
+    v_bus_max : float or ndarray
+        Highest bus voltage in service [V].
+    vds_rating : float or ndarray
+        Drain-source rating of the switches it protects [V].
+
+    Returns
+    -------
+    tuple
+        ``(lowest standoff, highest clamp)`` [V]: the standoff must sit at or above the highest bus
+        so the TVS never conducts in service, the clamp at its rated pulse current at or below the
+        switch rating. A TVS clamps near 1.6 times its standoff (common practice), so the window
+        is practical only when ``vds_rating ≥ ~1.6 · v_bus_max``.
+
+    References
+    ----------
+    Common practice for transient-voltage suppressor selection.
+    """
+    return v_bus_max, vds_rating
+
+
+def fault_current_at_response(i_threshold: Any, v_bus: Any, l_fault: Any, t_response: Any) -> Any:
+    """Current reached when overcurrent protection acts, for a fault that rises at V/L.
+
+    Parameters
+    ----------
+    i_threshold : float or ndarray
+        Overcurrent trip threshold [A].
+    v_bus : float or ndarray
+        Bus voltage driving the fault [V].
+    l_fault : float or ndarray
+        Inductance of the fault path [H].
+    t_response : float or ndarray
+        Time from the threshold being crossed to the switches being off [s].
+
+    Returns
+    -------
+    float or ndarray
+        ``I = I_threshold + (V / L) · t_response`` [A] (resistance neglected: the worst case).
+
+    References
+    ----------
+    v = L·di/dt for an inductor.
+    """
+    return i_threshold + v_bus / l_fault * t_response
