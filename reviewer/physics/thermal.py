@@ -1,0 +1,485 @@
+"""Losses, thermal resistance chains and junction temperature, with R_DS(on) rising with T_j.
+
+R_DS(on) against temperature is modelled from two points the design supplies: the value at
+T_ref and the "hot factor" k = R(T_hot)/R(T_ref). The default model is exponential,
+R(T) = R_ref · k^((T − T_ref)/(T_hot − T_ref)), i.e. the familiar R_25·(1 + α)^(T − 25) form:
+datasheet curves of normalised on-resistance against temperature bend upwards, and the
+exponential keeps that curvature, so beyond T_hot (where thermal runaway lives) it grows faster
+than a straight line and does not understate the loop gain of the electro-thermal feedback.
+Between T_ref and T_hot it lies a little below the chord (about 3 % at the middle for k = 1.7),
+which the linear model, R_ref·(1 + (k − 1)(T − T_ref)/(T_hot − T_ref)), gives instead for
+those who prefer it. Datasheet curve points can be used with :func:`rds_on_from_points`.
+
+Junction temperature and on-resistance depend on each other; :func:`solve_junction_temperature`
+iterates T ← T_a + θ·P(T) from ambient. P rises with T, so the iterates rise monotonically and
+settle on the lowest (stable) solution when there is one; when there is none the temperature
+runs away, and the function says so in its result rather than raising.
+
+Load currents per switch (:func:`switch_currents`) assume a sinusoidal load current of peak
+I_pk and lag φ behind the bridge voltage's fundamental (the fundamental-only estimate until
+harmonics are known), and MOSFET channels that conduct in both directions while on (so the
+channel, not the body diode, carries reverse current outside dead time).
+
+References
+----------
+N. Mohan, T. Undeland, W. Robbins, *Power Electronics*, 3rd ed., Wiley, 2003, §2-3 (switching
+loss ½·V·I·(t_on + t_off)·f_s), ch. 29 (heat sinks, thermal resistance chains).
+B. J. Baliga, *Fundamentals of Power Semiconductor Devices*, Springer, 2008, §6.7 (on-resistance
+rises with temperature through falling mobility).
+D. G. Holmes and T. A. Lipo, *Pulse Width Modulation for Power Converters*, 2003, ch. 3
+(duty cycles of single-phase modulations).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Literal
+
+import numpy as np
+
+RdsModel = Literal["exponential", "linear"]
+ModulationKind = Literal["square", "quasi_square", "spwm_bipolar", "spwm_unipolar",
+                         "spwm_level_shifted"]
+
+
+def _a(x) -> np.ndarray:
+    return np.asarray(x, dtype=float)
+
+
+def _out(x):
+    a = np.asarray(x, dtype=float)
+    return float(a) if a.ndim == 0 else a
+
+
+# ---------------------------------------------------------------- on-resistance and temperature
+
+def rds_on_at(t_j, rds_ref, t_ref, hot_factor, t_hot, model: RdsModel = "exponential"):
+    """On-resistance at junction temperature ``t_j`` from a reference value and a hot factor [Ω].
+
+    Parameters
+    ----------
+    t_j : junction temperature [°C]
+    rds_ref : R_DS(on) at ``t_ref`` [Ω]
+    t_ref : temperature of the reference value [°C]
+    hot_factor : R(t_hot)/R(t_ref) [unitless]
+    t_hot : temperature the factor is given at [°C]
+    model : ``"exponential"`` (default, see the module text for why) or ``"linear"``
+
+    References
+    ----------
+    Baliga 2008, §6.7 (temperature dependence of on-resistance); exponential form of the
+    normalised curve: common practice.
+    """
+    t, r, tr, k, th = (_a(x) for x in (t_j, rds_ref, t_ref, hot_factor, t_hot))
+    x = (t - tr) / (th - tr)
+    if model == "exponential":
+        return _out(r * k ** x)
+    if model == "linear":
+        return _out(r * (1.0 + (k - 1.0) * x))
+    raise ValueError(f"model must be 'exponential' or 'linear', not {model!r}")
+
+
+def rds_on_slope(t_j, rds_ref, t_ref, hot_factor, t_hot, model: RdsModel = "exponential"):
+    """dR_DS(on)/dT at ``t_j`` for the model of :func:`rds_on_at` [Ω/°C]."""
+    t, r, tr, k, th = (_a(x) for x in (t_j, rds_ref, t_ref, hot_factor, t_hot))
+    if model == "exponential":
+        return _out(_a(rds_on_at(t, r, tr, k, th, model)) * np.log(k) / (th - tr))
+    if model == "linear":
+        return _out(r * (k - 1.0) / (th - tr) + 0.0 * t)
+    raise ValueError(f"model must be 'exponential' or 'linear', not {model!r}")
+
+
+def rds_on_from_points(t_j, rds_ref, temperatures, factors):
+    """On-resistance from a datasheet's normalised curve, linear between points [Ω].
+
+    Parameters
+    ----------
+    t_j : junction temperature [°C]
+    rds_ref : R_DS(on) where the normalised curve is 1 [Ω]
+    temperatures : curve temperatures, increasing [°C]
+    factors : normalised R_DS(on) at those temperatures [unitless]
+
+    References
+    ----------
+    Piecewise-linear interpolation (numpy.interp); beyond the ends the end slopes continue.
+    """
+    t = _a(t_j)
+    tt, ff = _a(temperatures), _a(factors)
+    f = np.interp(t, tt, ff)
+    lo = ff[0] + (t - tt[0]) * (ff[1] - ff[0]) / (tt[1] - tt[0])
+    hi = ff[-1] + (t - tt[-1]) * (ff[-1] - ff[-2]) / (tt[-1] - tt[-2])
+    f = np.where(t < tt[0], lo, np.where(t > tt[-1], hi, f))
+    return _out(_a(rds_ref) * f)
+
+
+# ---------------------------------------------------------------------------------- losses
+
+def conduction_loss(i_rms, rds_on):
+    """Conduction loss P = I_rms² · R_DS(on) [W].
+
+    Parameters
+    ----------
+    i_rms : RMS current through the channel [A]
+    rds_on : on-resistance at the junction temperature [Ω]
+
+    References
+    ----------
+    Joule's law; Mohan, Undeland & Robbins, 3rd ed., §2-3.
+    """
+    i = _a(i_rms)
+    return _out(i * i * _a(rds_on))
+
+
+def switching_loss(v_bus, i_switched, t_rise, t_fall, f_sw):
+    """Overlap loss of hard switching, P = ½ · V · I · (t_r + t_f) · f_sw [W].
+
+    Parameters
+    ----------
+    v_bus : voltage switched [V]
+    i_switched : current switched (mean over the edges) [A]
+    t_rise, t_fall : voltage transition times at turn-on and turn-off [s]
+    f_sw : switching frequency of this switch [Hz]
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §2-3, eq. 2-6 (linearised
+    switching waveforms).
+    """
+    return _out(0.5 * _a(v_bus) * _a(i_switched) * (_a(t_rise) + _a(t_fall)) * _a(f_sw))
+
+
+def coss_loss(coss, v_bus, f_sw):
+    """Output-capacitance loss ½ · C_oss · V² · f_sw [W].
+
+    References
+    ----------
+    Energy ½CV² stored in C_oss and dissipated in the channel at each turn-on; Mohan,
+    Undeland & Robbins, 3rd ed., §22-4.
+    """
+    v = _a(v_bus)
+    return _out(0.5 * _a(coss) * v * v * _a(f_sw))
+
+
+def body_diode_loss(v_f, i, t_dead, f_sw):
+    """Body-diode loss in dead time, P = V_f · I · 2 · t_dead · f_sw [W].
+
+    Parameters
+    ----------
+    v_f : body-diode forward voltage [V]
+    i : current the diode carries during the dead intervals [A]
+    t_dead : dead time per edge [s]
+    f_sw : switching frequency [Hz]
+
+    References
+    ----------
+    Holmes & Lipo, 2003, §3.6 (two dead intervals per switching period); conduction loss of a
+    diode as V_f·I·duty.
+    """
+    return _out(_a(v_f) * _a(i) * 2.0 * _a(t_dead) * _a(f_sw))
+
+
+def gate_drive_loss(qg, v_drive, f_sw):
+    """Gate-drive power P = Q_g · V_dr · f_sw, shared by the driver and gate resistances [W].
+
+    References
+    ----------
+    Charge Q_g taken from a supply at V_dr once per period; Mohan, Undeland & Robbins §22-4.
+    """
+    return _out(_a(qg) * _a(v_drive) * _a(f_sw))
+
+
+def gate_loss_share(p_gate, r_part, r_loop):
+    """The share of gate-drive power dissipated in one resistance of the loop [W].
+
+    P_part = P_gate · R_part / R_loop (the same current flows through every series element).
+
+    References
+    ----------
+    Series resistors share I²R in proportion to R.
+    """
+    return _out(_a(p_gate) * _a(r_part) / _a(r_loop))
+
+
+# --------------------------------------------------------------------- thermal resistance
+
+def thermal_resistance(rth_jc=None, rth_cs=None, rth_sa=None, rth_ja=None) -> float:
+    """Junction-to-ambient thermal resistance of one device [K/W].
+
+    With a heatsink (``rth_sa`` given): θ_jc + θ_cs + θ_sa (θ_cs 0 when not given). Without:
+    θ_ja. Raises ValueError when neither path can be formed.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, 3rd ed., §29-2 (series thermal resistances).
+    """
+    if rth_sa is not None:
+        if rth_jc is None:
+            raise ValueError("a heatsink path needs the junction-to-case resistance")
+        return float(rth_jc + (rth_cs or 0.0) + rth_sa)
+    if rth_ja is not None:
+        return float(rth_ja)
+    raise ValueError("give junction-to-ambient, or junction-to-case and sink-to-ambient")
+
+
+def junction_temperature(t_ambient, power, rth):
+    """T_j = T_a + P · θ [°C].
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, 3rd ed., §29-2.
+    """
+    return _out(_a(t_ambient) + _a(power) * _a(rth))
+
+
+@dataclass(frozen=True)
+class JunctionSolution:
+    """Result of the electro-thermal solution for one device.
+
+    ``converged`` is False for thermal runaway: ``t_j``, ``rds_on`` and ``power`` are then
+    None and ``message`` says what happened.
+    """
+
+    converged: bool
+    t_j: float | None
+    rds_on: float | None
+    power: float | None
+    iterations: int
+    message: str
+
+
+def solve_junction_temperature(t_ambient: float, rth: float, i_rms: float, rds_ref: float,
+                               t_ref: float, hot_factor: float, t_hot: float,
+                               p_other: float = 0.0, model: RdsModel = "exponential",
+                               tol: float = 1e-6, max_iter: int = 20000,
+                               t_ceiling: float = 1000.0) -> JunctionSolution:
+    """Junction temperature with R_DS(on) evaluated at it, by fixed-point iteration.
+
+    Solves T = T_a + θ·(I_rms²·R(T) + P_other), starting at T_a. The iterates rise
+    monotonically; they stop when a step is below ``tol`` (converged) or when T passes
+    ``t_ceiling`` or ``max_iter`` is spent (no solution: thermal runaway).
+
+    Parameters
+    ----------
+    t_ambient : ambient temperature [°C]
+    rth : junction-to-ambient thermal resistance [K/W]
+    i_rms : RMS channel current [A]
+    rds_ref, t_ref, hot_factor, t_hot, model : on-resistance model, see :func:`rds_on_at`
+    p_other : losses that do not depend on T (switching, diode, gate share) [W]
+    tol : convergence step [K]
+    max_iter : iteration limit [unitless]
+    t_ceiling : temperature taken as runaway [°C]
+
+    References
+    ----------
+    Fixed-point iteration of a monotone map (Banach; e.g. R. L. Burden and J. D. Faires,
+    *Numerical Analysis*, 9th ed., §2.2); electro-thermal loop: Baliga 2008 §6.7.
+    """
+    t = float(t_ambient)
+    i2 = float(i_rms) ** 2
+    for n in range(1, max_iter + 1):
+        r = float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model))
+        p = i2 * r + p_other
+        t_new = t_ambient + rth * p
+        if not math.isfinite(t_new) or t_new > t_ceiling:
+            return JunctionSolution(False, None, None, None, n,
+                                    f"no solution: thermal runaway (junction passes "
+                                    f"{t_ceiling:g} °C after {n} steps)")
+        if abs(t_new - t) < tol:
+            r = float(rds_on_at(t_new, rds_ref, t_ref, hot_factor, t_hot, model))
+            return JunctionSolution(True, t_new, r, i2 * r + p_other, n, "converged")
+        t = t_new
+    return JunctionSolution(False, None, None, None, max_iter,
+                            "no solution: thermal runaway (the junction temperature did not "
+                            f"settle within {max_iter} steps: at the edge of runaway)")
+
+
+def largest_total_resistance(t_limit: float, t_ambient: float, i_rms: float, rds_ref: float,
+                             t_ref: float, hot_factor: float, t_hot: float,
+                             p_other: float = 0.0, model: RdsModel = "exponential") -> float:
+    """Largest junction-to-ambient resistance whose stable T_j stays at or below ``t_limit`` [K/W].
+
+    θ makes T a solution when θ = h(T) = (T − T_a)/P(T). The stable solution rises with θ until
+    h peaks (beyond that peak there is none: runaway), so the answer is the maximum of h over
+    [T_a, T_limit]: h(T_limit) if h still rises there, else the peak of h (found by bisection
+    on h' = 0, i.e. P(T) = (T − T_a)·P'(T)).
+
+    References
+    ----------
+    Inversion of T = T_a + θ·P(T); Mohan, Undeland & Robbins §29-2.
+    """
+    i2 = float(i_rms) ** 2
+
+    def p(t):
+        return i2 * float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model)) + p_other
+
+    def dh_sign(t):
+        return p(t) - (t - t_ambient) * i2 * float(rds_on_slope(t, rds_ref, t_ref, hot_factor,
+                                                                  t_hot, model))
+
+    if t_limit <= t_ambient:
+        return 0.0
+    if dh_sign(t_limit) >= 0:
+        t_best = t_limit
+    else:
+        lo, hi = t_ambient, t_limit
+        for _ in range(200):
+            mid = 0.5 * (lo + hi)
+            if dh_sign(mid) >= 0:
+                lo = mid
+            else:
+                hi = mid
+        t_best = lo
+    return (t_best - t_ambient) / p(t_best)
+
+
+def largest_sink_to_ambient(t_limit: float, t_ambient: float, rth_jc: float, rth_cs: float,
+                            i_rms: float, rds_ref: float, t_ref: float, hot_factor: float,
+                            t_hot: float, p_other: float = 0.0,
+                            model: RdsModel = "exponential") -> float:
+    """Largest heatsink (sink-to-ambient) resistance that keeps T_j ≤ ``t_limit`` [K/W].
+
+    θ_sa,max = θ_total,max − θ_jc − θ_cs with θ_total,max from :func:`largest_total_resistance`.
+    Negative means no heatsink is enough: reduce the loss or spread it over more devices.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, 3rd ed., §29-2 (choosing a heat sink).
+    """
+    total = largest_total_resistance(t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor,
+                                     t_hot, p_other, model)
+    return total - rth_jc - rth_cs
+
+
+def device_current(i_total, count, sharing_derating=0.2):
+    """Current of the most heavily loaded of ``count`` paralleled devices [A].
+
+    I_dev = (I / n)·(1 + d) for n > 1 (d = 0.2 by common practice: paralleled MOSFETs share
+    unevenly through R_DS(on) and threshold spread), I for a single device.
+
+    References
+    ----------
+    Current-sharing allowance: common practice.
+    """
+    n = _a(count)
+    return _out(np.where(n > 1, _a(i_total) / n * (1.0 + _a(sharing_derating)), _a(i_total)))
+
+
+# ------------------------------------------------------------------- currents per modulation
+
+def _int_sin(a, b, phi):
+    """∫_a^b sin(θ − φ) dθ."""
+    return math.cos(a - phi) - math.cos(b - phi)
+
+
+def _int_sin2(a, b, phi):
+    """∫_a^b sin²(θ − φ) dθ."""
+    return (b - a) / 2 - (math.sin(2 * (b - phi)) - math.sin(2 * (a - phi))) / 4
+
+
+@dataclass(frozen=True)
+class SwitchCurrents:
+    """RMS and average (drain-to-source, the sourcing direction) current of each position [A],
+    the larger of the two legs' values."""
+
+    high_rms: float
+    high_avg: float
+    low_rms: float
+    low_avg: float
+
+
+def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
+                    notch_angle: float = 0.0, index: float = 1.0,
+                    zero_state: Literal["low", "alternating"] = "low") -> SwitchCurrents:
+    """RMS and average channel current per switch for a sinusoidal load current.
+
+    Load current i = I_pk·sin(θ − φ), θ the phase of the bridge voltage's fundamental. Each
+    switch carries i² while it is on, so I_rms² = (1/2π)·∫ on(θ)·i² dθ: the load's mean square
+    split by conduction time.
+
+    - square: each switch on for half the cycle: I_rms = I_pk/2, I_avg = I_pk·cos φ/π.
+    - quasi-square with zero interval 2α at each zero crossing; ``zero_state="low"`` (both low
+      sides on in the zero interval, the usual choice with bootstrap drives): high sides on for
+      (π − 2α) per cycle, low sides for (π + 2α); ``"alternating"`` (phase-shifted legs): every
+      switch on for half the cycle.
+    - sine PWM (bipolar, unipolar, level-shifted), carrier ≫ output: duty (1 ± M·sin θ)/2 for
+      every switch, which gives I_rms = I_pk/2 and I_avg = I_pk·M·cos φ/4.
+
+    Parameters
+    ----------
+    modulation : modulation kind
+    i_peak : load current amplitude [A]
+    phase : load current lag φ [rad]
+    notch_angle : quasi-square zero-interval half-angle α [rad]
+    index : sine-PWM modulation index M [unitless] (M ≤ 1)
+    zero_state : quasi-square freewheeling pattern
+
+    References
+    ----------
+    Holmes & Lipo, *Pulse Width Modulation for Power Converters*, 2003, ch. 3 (duty-cycle
+    functions of single-phase modulations); local-average RMS as in Mohan, Undeland & Robbins
+    §8-3.
+    """
+    i = float(i_peak)
+    phi = float(phase)
+    tau = 2 * math.pi
+    if modulation == "square":
+        modulation, notch_angle, zero_state = "quasi_square", 0.0, "alternating"
+    if modulation == "quasi_square":
+        a = float(notch_angle)
+        if zero_state == "low":
+            s2 = _int_sin2(a, math.pi - a, phi)
+            h_rms = i * math.sqrt(s2 / tau)
+            l_rms = i * math.sqrt((math.pi - s2) / tau)
+            avg = i * abs(_int_sin(a, math.pi - a, phi)) / tau
+            return SwitchCurrents(h_rms, avg, l_rms, avg)
+        if zero_state == "alternating":
+            rms = i / 2
+            avg = i / math.pi * max(abs(math.cos(a - phi)), abs(math.cos(a + phi)))
+            return SwitchCurrents(rms, avg, rms, avg)
+        raise ValueError(f"zero_state must be 'low' or 'alternating', not {zero_state!r}")
+    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
+        rms = i / 2
+        avg = abs(i * float(index) * math.cos(phi) / 4)
+        return SwitchCurrents(rms, avg, rms, avg)
+    raise ValueError(f"unknown modulation {modulation!r}")
+
+
+def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
+                     notch_angle: float = 0.0) -> float:
+    """Mean magnitude of the load current at a switch's edges, for the switching loss [A].
+
+    square: edges at θ = 0, π: I_pk·|sin φ| (zero for a purely resistive sinusoid; a real
+    square-wave current is not sinusoidal, so use the actual current when known);
+    quasi-square: edges at α and π − α: I_pk·(|sin(α − φ)| + |sin(α + φ)|)/2;
+    sine PWM: edges spread evenly over the cycle: the mean of |i|, 2·I_pk/π.
+
+    References
+    ----------
+    Mean of |sin| over a cycle, 2/π; Holmes & Lipo 2003 ch. 3 (edge positions).
+    """
+    i, phi, a = float(i_peak), float(phase), float(notch_angle)
+    if modulation == "square":
+        return i * abs(math.sin(phi))
+    if modulation == "quasi_square":
+        return i * (abs(math.sin(a - phi)) + abs(math.sin(a + phi))) / 2
+    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
+        return 2 * i / math.pi
+    raise ValueError(f"unknown modulation {modulation!r}")
+
+
+def switch_frequency(modulation: ModulationKind, f_out: float, f_carrier: float | None) -> float:
+    """How often each switch turns on (and off) [Hz]: f_out for square and quasi-square waves,
+    the carrier for sine PWM.
+
+    References
+    ----------
+    Holmes & Lipo 2003, ch. 3.
+    """
+    if modulation in ("square", "quasi_square"):
+        return float(f_out)
+    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
+        if f_carrier is None:
+            raise ValueError("sine PWM needs a carrier frequency")
+        return float(f_carrier)
+    raise ValueError(f"unknown modulation {modulation!r}")

@@ -1,0 +1,236 @@
+"""Switching times, dead time, shoot-through, dv/dt turn-on and minimum pulses.
+
+Hand calculations follow the gate-charge method of Mohan, Undeland & Robbins, Power
+Electronics, 3rd ed., §22-4; the RC and current-limited gate charging is also integrated with
+scipy.integrate.solve_ivp; dead-time and pulse-width relations follow Holmes & Lipo, Pulse
+Width Modulation for Power Converters (2003), and are checked against a time-domain carrier
+comparison built with numpy.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.integrate import solve_ivp
+
+from reviewer.physics import switching as sw
+
+CISS, QGD = 2e-9, 10e-9      # illustrative gate: 2 nF input capacitance, 10 nC Miller charge
+VDR, VTH, VPL = 12.0, 3.0, 5.0
+
+
+def test_rc_crossing_time_against_the_step_response():
+    # v(t) = V_to + (V_from − V_to)·e^(−t/RC) must equal V_cross at the returned time.
+    for v0, v1, vx in [(0.0, 12.0, 3.0), (12.0, 0.0, 5.0), (12.0, -5.0, 0.0)]:
+        t = sw.rc_crossing_time(100.0, 1e-9, v0, v1, vx)
+        assert v1 + (v0 - v1) * math.exp(-t / 100e-9) == pytest.approx(vx)
+    # Starting at the crossing: no time; never reached: infinite.
+    assert sw.rc_crossing_time(100.0, 1e-9, 3.0, 12.0, 3.0) == 0.0
+    assert sw.rc_crossing_time(100.0, 1e-9, 0.0, 12.0, 12.0) == math.inf
+    assert sw.rc_crossing_time(100.0, 1e-9, 0.0, 2.0, 3.0) == math.inf
+
+
+def test_gate_charge_method_by_hand():
+    # R_on = R_off = 2 Ω driver + 5 Ω series + 3 Ω internal = 10 Ω; R·C_iss = 20 ns.
+    r = sw.gate_loop_resistance(2.0, 5.0, 3.0)
+    assert r == 10.0
+    # t_d(on) = 20 ns · ln(12/(12 − 3)) = 20 ns · 0.287682 = 5.7536 ns
+    assert sw.turn_on_delay(r, CISS, VDR, VTH) == pytest.approx(20e-9 * math.log(12 / 9))
+    assert sw.turn_on_delay(r, CISS, VDR, VTH) == pytest.approx(5.7536e-9, rel=1e-4)
+    # t_r = Q_gd·R/(V_dr − V_pl) = 10 nC · 10 Ω / 7 V = 14.286 ns
+    assert sw.rise_time(QGD, r, VDR, VPL) == pytest.approx(14.2857e-9, rel=1e-4)
+    # t_d(off) = 20 ns · ln(12/5) = 20 ns · 0.875469 = 17.509 ns
+    assert sw.turn_off_delay(r, CISS, VDR, VPL) == pytest.approx(17.5094e-9, rel=1e-4)
+    # t_f = Q_gd·R/V_pl = 10 nC · 10 Ω / 5 V = 20 ns
+    assert sw.fall_time(QGD, r, VPL) == pytest.approx(20e-9)
+    # tail = 20 ns · ln(5/3) = 10.217 ns
+    assert sw.current_fall_tail(r, CISS, VPL, VTH) == pytest.approx(10.2165e-9, rel=1e-4)
+    # Negative off bias −5 V: t_d(on) = 20 ns · ln(17/9), t_f = 10 nC·10 Ω/10 V = 10 ns.
+    assert sw.turn_on_delay(r, CISS, VDR, VTH, v_off=-5.0) == pytest.approx(20e-9 * math.log(17 / 9))
+    assert sw.fall_time(QGD, r, VPL, v_off=-5.0) == pytest.approx(10e-9)
+
+
+def test_drive_below_plateau_never_completes():
+    assert sw.rise_time(QGD, 10.0, 4.0, VPL) == math.inf
+    assert sw.turn_on_delay(10.0, CISS, 2.5, VTH) == math.inf
+
+
+def test_turn_on_delay_against_ode():
+    # C dv/dt = (V_dr − v)/R integrated by scipy; event at v = V_th.
+    r = 10.0
+
+    def f(t, v):
+        return [(VDR - v[0]) / (r * CISS)]
+
+    ev = lambda t, v: v[0] - VTH  # noqa: E731
+    ev.terminal = True
+    sol = solve_ivp(f, (0, 1e-6), [0.0], events=ev, rtol=1e-10, atol=1e-12)
+    assert sw.turn_on_delay(r, CISS, VDR, VTH) == pytest.approx(sol.t_events[0][0], rel=1e-6)
+
+
+def test_current_limited_forms_by_hand():
+    # t = Q/I: C_iss·V_th/I = 2 nF·3 V/0.5 A = 12 ns; Q_gd/I = 10 nC/0.5 A = 20 ns;
+    # C_iss·(V_dr − V_pl)/I = 2 nF·7 V/0.5 A = 28 ns; tail 2 nF·2 V/0.5 A = 8 ns.
+    assert sw.turn_on_delay_current(CISS, VTH, 0.5) == pytest.approx(12e-9)
+    assert sw.plateau_time_current(QGD, 0.5) == pytest.approx(20e-9)
+    assert sw.turn_off_delay_current(CISS, VDR, VPL, 0.5) == pytest.approx(28e-9)
+    assert sw.current_fall_tail_current(CISS, VPL, VTH, 0.5) == pytest.approx(8e-9)
+
+
+def test_stage_with_resistance_and_current_limit_takes_the_slower():
+    t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0, r_off=10.0,
+                           i_source=0.1, i_sink=2.0)
+    # Turn-on: the 0.1 A limit dominates: 2 nF·3 V/0.1 A = 60 ns > 5.75 ns.
+    assert t.td_on == pytest.approx(60e-9)
+    assert t.tr == pytest.approx(100e-9)
+    # Turn-off: 2 A is generous, the 10 Ω RC form dominates: 17.509 ns and 20 ns.
+    assert t.td_off == pytest.approx(17.5094e-9, rel=1e-4)
+    assert t.tf == pytest.approx(20e-9)
+    assert t.turn_off == pytest.approx(t.td_off + t.tf)
+    assert t.turn_off_to_cutoff == pytest.approx(t.td_off + t.tf + t.tail)
+    with pytest.raises(ValueError):
+        sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0)
+
+
+def test_slower_of_two_bounds_the_true_time():
+    # True charging current min(I_lim, (V − v)/R), integrated: max(t_RC, t_I) ≤ t ≤ t_RC + t_I.
+    r, i_lim = 50.0, 0.15
+
+    def f(t, v):
+        return [min(i_lim, (VDR - v[0]) / r) / CISS]
+
+    ev = lambda t, v: v[0] - VTH  # noqa: E731
+    ev.terminal = True
+    sol = solve_ivp(f, (0, 1e-6), [0.0], events=ev, rtol=1e-10, atol=1e-12, max_step=1e-10)
+    t_true = sol.t_events[0][0]
+    t_rc = sw.turn_on_delay(r, CISS, VDR, VTH)
+    t_i = sw.turn_on_delay_current(CISS, VTH, i_lim)
+    t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=r, r_off=r, i_source=i_lim).td_on
+    assert t == max(t_rc, t_i)
+    assert t <= t_true * (1 + 1e-6) and t_true <= t_rc + t_i
+
+
+def test_pull_resistor_turn_off_takes_tens_of_microseconds():
+    # 10 kΩ × 2 nF = 20 µs. t_d(off) = 20 µs·ln(12/5) = 17.51 µs; t_f = 10 nC·10 kΩ/5 V = 20 µs.
+    t = sw.pull_resistor_turn_off(10e3, CISS, QGD, VDR, VPL)
+    assert t == pytest.approx(17.5094e-6 + 20e-6, rel=1e-4)
+    assert 10e-6 < t < 100e-6
+    # With the tail to V_th: + 20 µs·ln(5/3) = 10.22 µs.
+    t2 = sw.pull_resistor_turn_off(10e3, CISS, QGD, VDR, VPL, vth=VTH)
+    assert t2 == pytest.approx(t + 10.2165e-6, rel=1e-4)
+
+
+def test_dead_time_and_shoot_through_by_hand():
+    t_off = sw.pull_resistor_turn_off(10e3, CISS, QGD, VDR, VPL)    # 37.509 µs
+    td_on = sw.turn_on_delay(10.0, CISS, VDR, VTH)                  # 5.754 ns
+    # Needed: 1.5·(37.509 µs − 5.754 ns) = 56.255 µs (margin +50 %: common practice).
+    assert sw.dead_time_required(t_off, td_on, 0.5) == pytest.approx(1.5 * (t_off - td_on))
+    # Zero dead time: both conduct for 37.509 µs − 5.754 ns.
+    assert sw.shoot_through_overlap(0.0, t_off, td_on) == pytest.approx(t_off - td_on)
+    # Threshold: dead time exactly t_off − t_d(on): no overlap; 1 ns less: 1 ns of overlap.
+    assert sw.shoot_through_overlap(t_off - td_on, t_off, td_on) == pytest.approx(0.0, abs=1e-18)
+    assert sw.shoot_through_overlap(t_off - td_on - 1e-9, t_off, td_on) == pytest.approx(1e-9, rel=1e-3)
+    # A fast incoming delay longer than the turn-off: nothing needed.
+    assert sw.dead_time_required(10e-9, 20e-9) == 0.0
+    # Upper bound of the cross-conduction current: 24 V/(10 mΩ + 15 mΩ) = 960 A.
+    assert sw.shoot_through_peak_current(24.0, 0.010, 0.015) == pytest.approx(960.0)
+
+
+def test_solve_for_the_turn_off_path_that_fits_the_dead_time():
+    t_dead, td_on = 500e-9, 20e-9
+    # Allowed turn-off: 500 ns/1.5 + 20 ns = 353.33 ns.
+    # k = C_iss·ln(12/5) + Q_gd/5 = 2 nF·0.875469 + 2 nF = 3.75094 ns/Ω → R = 94.20 Ω.
+    r = sw.largest_turn_off_resistance(t_dead, td_on, CISS, QGD, VDR, VPL)
+    assert r == pytest.approx((500e-9 / 1.5 + 20e-9) / (2e-9 * math.log(12 / 5) + 2e-9))
+    assert r == pytest.approx(94.197, rel=1e-4)
+    t_off = sw.turn_off_delay(r, CISS, VDR, VPL) + sw.fall_time(QGD, r, VPL)
+    assert sw.dead_time_required(t_off, td_on) == pytest.approx(t_dead)
+    # Sink current: Q_off = 2 nF·7 V + 10 nC = 24 nC; 24 nC / 353.33 ns = 67.92 mA.
+    i = sw.smallest_sink_current(t_dead, td_on, CISS, QGD, VDR, VPL)
+    assert i == pytest.approx(24e-9 / (500e-9 / 1.5 + 20e-9))
+    t_off_i = sw.turn_off_delay_current(CISS, VDR, VPL, i) + sw.plateau_time_current(QGD, i)
+    assert sw.dead_time_required(t_off_i, td_on) == pytest.approx(t_dead)
+    # With the tail counted the answers tighten, and still round-trip.
+    r2 = sw.largest_turn_off_resistance(t_dead, td_on, CISS, QGD, VDR, VPL, vth=VTH)
+    t2 = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0, r_off=r2).turn_off_to_cutoff
+    assert r2 < r and sw.dead_time_required(t2, td_on) == pytest.approx(t_dead)
+
+
+def test_dvdt_induced_gate_voltage_against_ode():
+    cgd, cgs, vbus = 100e-12, 1.9e-9, 24.0
+    dvdt = sw.node_slew_rate(vbus, 20e-9)                   # 24 V / 20 ns = 1.2 V/ns
+    assert dvdt == pytest.approx(1.2e9)
+    for r in (1.0, 10.0, 100.0, 10e3):
+        # (C_gs + C_gd)·dv_g/dt = C_gd·dv/dt − v_g/R over the ramp V_bus/(dv/dt).
+        sol = solve_ivp(lambda t, v: [(cgd * dvdt - v[0] / r) / (cgs + cgd)],
+                        (0, vbus / dvdt), [0.0], rtol=1e-10, atol=1e-14)
+        v = sw.induced_gate_voltage(cgd, cgs, r, dvdt, vbus)
+        assert v == pytest.approx(sol.y[0][-1], rel=1e-6)
+        assert v <= sw.induced_gate_voltage_bound(cgd, cgs, r, dvdt, vbus) * (1 + 1e-12)
+    # Stiff hold: C_gd·dv/dt·R = 100 pF · 1.2 V/ns · 1 Ω = 0.12 V, nearly reached.
+    assert sw.induced_gate_voltage(cgd, cgs, 1.0, dvdt, vbus) == pytest.approx(0.12, rel=1e-3)
+    # Open gate: capacitive divider C_gd/(C_gd + C_gs)·V_bus = 0.1/2.0·24 = 1.2 V.
+    assert sw.induced_gate_voltage(cgd, cgs, math.inf, dvdt, vbus) == pytest.approx(1.2)
+    assert sw.induced_gate_voltage_bound(cgd, cgs, 1e9, dvdt, vbus) == pytest.approx(1.2)
+
+
+def test_dead_time_fraction():
+    # 2·t_dead·f_sw = 2 · 500 ns · 20 kHz = 2 % (Holmes & Lipo §3.6).
+    assert sw.dead_time_fraction(500e-9, 20e3) == pytest.approx(0.02)
+
+
+def _spwm_cycle(m, fc, f0, n_per_carrier=2000):
+    t = np.arange(int(fc / f0) * n_per_carrier) / (fc * n_per_carrier)
+    phase = (t * fc) % 1.0
+    carrier = 4 * np.abs(phase - 0.5) - 1          # triangle, −1..1
+    ref = m * np.sin(2 * np.pi * f0 * t)
+    return t, carrier, ref
+
+
+def _runs(x):
+    """(start index, length) of runs of True in x."""
+    d = np.diff(np.concatenate(([0], x.astype(int), [0])))
+    starts, ends = np.flatnonzero(d == 1), np.flatnonzero(d == -1)
+    return starts, ends - starts
+
+
+def test_unipolar_output_pulse_width_against_carrier_comparison():
+    m, fc, f0 = 0.9, 20e3, 50.0
+    t, carrier, ref = _spwm_cycle(m, fc, f0)
+    dt = t[1] - t[0]
+    a = ref > carrier
+    b = -ref > carrier
+    pos = a & ~b
+    starts, lengths = _runs(pos)
+    centres = (starts + lengths / 2) * dt
+    width = lengths * dt
+    expected = m * np.abs(np.sin(2 * np.pi * f0 * centres)) / (2 * fc)
+    keep = width > 20 * dt
+    np.testing.assert_allclose(width[keep], expected[keep], atol=3 * dt)
+
+
+def test_narrow_pulse_fractions_against_sampling():
+    theta = np.linspace(0, 2 * np.pi, 2_000_001)[:-1]
+    # Unipolar: output pulse M·|sin θ|/(2 f_c) below 1 µs at M = 0.9, 20 kHz:
+    # x = 2·1 µs·20 kHz/0.9 = 0.0444, fraction (2/π)·asin(0.0444) = 2.83 %.
+    m, fc, tmin = 0.9, 20e3, 1e-6
+    frac = sw.narrow_pulse_fraction_unipolar(m, fc, tmin)
+    assert frac == pytest.approx(2 / np.pi * np.arcsin(2 * tmin * fc / m))
+    assert frac == pytest.approx(np.mean(m * np.abs(np.sin(theta)) / (2 * fc) < tmin), abs=1e-5)
+    # Leg pulses: on-time (1 + M sin θ)/(2 f_c) or off-time below 2 µs at M = 0.95.
+    m, tmin = 0.95, 2e-6
+    d = (1 + m * np.sin(theta)) / 2
+    sampled = np.mean((d / fc < tmin) | ((1 - d) / fc < tmin))
+    assert sw.narrow_pulse_fraction_leg(m, fc, tmin) == pytest.approx(sampled, abs=1e-5)
+
+
+def test_narrow_pulse_thresholds():
+    fc, m = 20e3, 0.9
+    # Leg: shortest demanded pulse is (1 − M)/(2 f_c) = 2.5 µs; at exactly that, nothing is cut.
+    assert sw.narrow_pulse_fraction_leg(m, fc, (1 - m) / (2 * fc)) == pytest.approx(0.0, abs=1e-12)
+    assert sw.narrow_pulse_fraction_leg(m, fc, 1.01 * (1 - m) / (2 * fc)) > 0.0
+    # Unipolar: the widest output pulse is M/(2 f_c) = 22.5 µs; a minimum that long cuts them all.
+    assert sw.narrow_pulse_fraction_unipolar(m, fc, m / (2 * fc)) == 1.0
+    assert sw.narrow_pulse_fraction_unipolar(m, fc, 0.0) == 0.0
