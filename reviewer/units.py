@@ -14,7 +14,7 @@ from dataclasses import dataclass
 
 from quantiphy import Quantity
 
-Quantity.set_prefs(map_sf=Quantity.map_sf_to_greek, prec=3, spacer=" ")
+Quantity.set_prefs(map_sf=Quantity.map_sf_to_greek, prec=2, spacer=" ")
 
 
 @dataclass(frozen=True)
@@ -134,6 +134,34 @@ def _parse_plain(head: str, raw: str, unit: str) -> float | None:
     return float(q.real)
 
 
+def parse_with_unit(text: str | float | int) -> tuple[float, str]:
+    """Parse a number written with any known unit: ``"80 %" -> (0.8, "%")``, ``"2.2k" -> (2200, "")``.
+
+    Used where no field says which unit to expect (rule parameters and limits). Raises
+    :class:`UnitError` when the text is no number or its unit is unknown.
+    """
+    if isinstance(text, (int, float)) and not isinstance(text, bool):
+        return float(text), ""
+    if not isinstance(text, str):
+        raise UnitError(f"expected a number with a unit, found {text!r}")
+    if text.strip().endswith("%"):
+        return parse_number(text, "%"), "%"
+    ordered = sorted(((sp, u) for u, unit in UNITS.items() for sp in unit.spellings if sp),
+                     key=lambda x: len(x[0]), reverse=True)
+    for spelling, unit in ordered:
+        if text.strip().endswith(spelling):
+            try:
+                return parse_number(text, unit), unit
+            except UnitError:
+                continue
+    return parse_number(text, ""), ""
+
+
+def same_dimension(a: str, b: str) -> bool:
+    """Whether two unit symbols measure the same thing (a ratio and a percentage do)."""
+    return a == b or {a, b} <= {"", "%"}
+
+
 @dataclass(frozen=True)
 class Span:
     """A toleranced quantity in SI units: ``lo ≤ typ ≤ hi``; equal when exact."""
@@ -194,4 +222,4 @@ def render(value: float, unit: str, prec: int = 3) -> str:
         return f"{math.degrees(value):.{prec}g}°"
     if unit in ("°C", "K/W", "W/K"):
         return f"{value:.{prec}g} {unit}"
-    return Quantity(value, unit).render(prec=prec)
+    return Quantity(value, unit).render(prec=prec - 1)

@@ -30,8 +30,16 @@ def read_toml(text: str, name: str) -> dict[str, Any]:
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as e:
+        import re
+
         line = getattr(e, "lineno", None)
         message = getattr(e, "msg", str(e))
+        where = re.search(r"\(at line (\d+), column (\d+)\)", message)
+        if where:
+            line = line or int(where.group(1))
+            message = message[: where.start()].strip() + f" (column {where.group(2)})"
+        elif "(at end of document)" in message:
+            message = message.replace("(at end of document)", "").strip() + " (at the end of the file)"
         raise InputError([Problem(name, line, "", f"TOML syntax: {message}")]) from None
 
 

@@ -56,6 +56,8 @@ class Output(Part):
                              "(default ±10 %: common practice).")
     thd_target: PCT = Field(_x(0.08), description="Target voltage THD after the filter "
                             "(default 8 %, EN 50160 / IEC 62040-3).")
+    transformer_ratio: RATIO | None = Field(None, description="Output transformer turns ratio, "
+                                            "load side over bridge side, if there is one.")
 
 
 class Load(Part):
@@ -77,6 +79,8 @@ class Modulation(Part):
                                 "over peak of carrier).")
     carrier: HZ | None = Field(None, description="Sine PWM: carrier (switching) frequency.")
     min_pulse: S | None = Field(None, description="Shortest pulse the controller emits.")
+    regulated: bool = Field(False, description="The controller adjusts the modulation to hold "
+                            "the output RMS against bus and load changes (closed loop).")
 
 
 class Timing(Part):
@@ -175,6 +179,8 @@ class Capacitors(Part):
 
 
 class Filter(Part):
+    """The output LC filter, on the bridge side of any output transformer (taken as ideal)."""
+
     inductance: H | None = None
     inductor_isat: A | None = None
     inductor_dcr: OHM | None = None

@@ -1,0 +1,10 @@
+"""Derive modules: read the design, call the physics, publish named quantities.
+
+Each module has ``QUANTITIES`` (what it may publish, declared with unit and label) and
+``derive(ctx)``. They run in the order of :data:`MODULES`; a module may read what an earlier
+one published with ``ctx.q(name)``.
+"""
+
+from reviewer.derive import band, operating, stress
+
+MODULES = [operating, band, stress]

@@ -1,0 +1,60 @@
+"""Findings: what the engine concluded for one rule and one subject. Immutable records."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+SEVERITIES = ("hazard", "risk", "advice")
+OUTCOMES = ("fail", "open", "needs_data", "pass", "answered", "not_applicable")
+"""fail: the check does not hold; open: a checklist question awaits an answer; needs_data: the
+design lacks a value the check needs; pass: the check holds at the worst corner; answered: a
+checklist question answered yes; not_applicable: the rule does not apply to this design."""
+
+BASES = {
+    "standard": "published standard",
+    "book": "textbook or handbook method",
+    "library": "reference library",
+    "practice": "common practice",
+    "memory": "from memory, not yet checked against the source",
+}
+
+
+@dataclass(frozen=True)
+class Finding:
+    rule_id: str
+    subject: str
+    area: str
+    title: str
+    severity: str
+    outcome: str
+    why: str = ""
+    mitigation: str = ""
+    reference: str = ""
+    basis: str = "practice"
+    unit: str = ""
+    relation: str = ""  # "≤", "≥", or "" for flags and questions
+    value: float | None = None  # at the worst corner
+    value_typ: float | None = None
+    limit: float | None = None
+    margin: float | None = None  # limit − value for ≤, value − limit for ≥, at the worst corner
+    pass_value: float | None = None
+    pass_unit: str = ""
+    pass_field: str = ""  # the design field the pass value is for
+    needs: tuple[str, ...] = ()
+    fields: tuple[str, ...] = ()
+    corner: tuple[tuple[str, str], ...] = ()
+    origin: str = "built-in"
+    question: str = ""
+    answer_note: str = ""
+    assumptions: tuple[str, ...] = field(default_factory=tuple)
+
+    @property
+    def key(self) -> str:
+        """Stable identity across revisions: rule id and subject."""
+        return f"{self.rule_id}[{self.subject}]" if self.subject else self.rule_id
+
+    @property
+    def relative_margin(self) -> float | None:
+        if self.margin is None or not self.limit:
+            return None
+        return self.margin / abs(self.limit)

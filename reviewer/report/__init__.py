@@ -1,0 +1,1 @@
+"""Views of a review as text: terminal, Markdown, JSON. Pure functions of a Review; never compute."""

@@ -1,0 +1,77 @@
+"""A review: the design, its calculation sheet and the findings, ready for any view."""
+
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass
+from pathlib import Path
+
+from reviewer.design import Design, load_design
+from reviewer.engine import evaluate
+from reviewer.findings import SEVERITIES, Finding
+from reviewer.quantities import Sheet, compute
+from reviewer.rulebook.loader import Rulebook, load_rulebook
+
+CAUTION = (
+    "This design is beyond extra-low voltage. Mains-level voltages and battery fault currents "
+    "can kill or burn. This review is an aid to the designer, not an approval: it cannot "
+    "certify the design as safe. Follow your local electrical codes and have the design "
+    "examined by a qualified person before it is powered."
+)
+AID_NOTE = (
+    "This review is an aid, not an approval: it checks the numbers it is given against rules "
+    "of thumb and published standards, and cannot certify a design as safe."
+)
+
+
+@dataclass(frozen=True)
+class Review:
+    path: str
+    design: Design
+    sheet: Sheet
+    findings: tuple[Finding, ...]
+
+    @property
+    def beyond_elv(self) -> bool:
+        return bool(self.sheet.value("band.beyond_elv", False))
+
+    @property
+    def failures(self) -> list[Finding]:
+        order = {s: i for i, s in enumerate(SEVERITIES)}
+        return sorted((f for f in self.findings if f.outcome == "fail"),
+                      key=lambda f: (order[f.severity], f.area, f.rule_id, f.subject))
+
+    def by_outcome(self, outcome: str) -> list[Finding]:
+        return [f for f in self.findings if f.outcome == outcome]
+
+    def counts(self) -> dict[str, int]:
+        """Failing findings by severity, and the other outcomes by name."""
+        c: Counter[str] = Counter()
+        for f in self.findings:
+            c[f.severity if f.outcome == "fail" else f.outcome] += 1
+        return dict(c)
+
+    def worst(self) -> str | None:
+        """The most severe failing severity, or None."""
+        fails = self.failures
+        return fails[0].severity if fails else None
+
+
+def answers_of(design: Design) -> dict[str, tuple[str, str]]:
+    out = {}
+    for qid, a in design.checklist.items():
+        out[qid] = (a, "") if isinstance(a, str) else (a.answer, a.note)
+    return out
+
+
+def review_design(design: Design, path: str, book: Rulebook) -> Review:
+    sheet = compute(design)
+    findings = evaluate(book, sheet, answers_of(design))
+    return Review(path, design, sheet, tuple(findings))
+
+
+def review_file(path: str | Path, rule_files: list[Path] | None = None,
+                book: Rulebook | None = None) -> Review:
+    """Load the design at ``path`` and review it with the built-in rules plus ``rule_files``."""
+    design = load_design(path)
+    return review_design(design, str(path), book or load_rulebook(rule_files))
