@@ -1,0 +1,26 @@
+"""reviewer new: write a starter design file (never overwrites)."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+
+def register(sub) -> None:
+    n = sub.add_parser("new", help="write a starter design file to fill in")
+    n.add_argument("file", type=Path, metavar="FILE")
+
+
+def run(args: argparse.Namespace) -> int:
+    from importlib.resources import files
+
+    from reviewer.atomic import write_text
+    from reviewer.errors import InputError, Problem
+
+    target: Path = args.file
+    if target.exists():
+        raise InputError([Problem(str(target), None, "", "already exists; not overwritten")])
+    write_text(target, files("reviewer").joinpath("starter.toml").read_text(encoding="utf-8"))
+    print(f"wrote {target}: fill it in, then run: reviewer check {target}", file=sys.stderr)
+    return 0
