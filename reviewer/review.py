@@ -6,6 +6,7 @@ from collections import Counter
 from dataclasses import dataclass
 from pathlib import Path
 
+from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
@@ -30,6 +31,24 @@ class Review:
     design: Design
     sheet: Sheet
     findings: tuple[Finding, ...]
+    record: rec.Record = rec.Record()
+
+    def finding(self, key: str) -> Finding | None:
+        return next((f for f in self.findings if f.key == key), None)
+
+    def decision(self, key: str) -> rec.Decision | None:
+        return self.record.decisions.get(key)
+
+    def state(self, key: str) -> str | None:
+        """The state of the decision on ``key`` (see :data:`reviewer.record.STATES`), or None."""
+        d = self.record.decisions.get(key)
+        return None if d is None else rec.state(d, self.finding(key))
+
+    @property
+    def orphans(self) -> list[rec.Decision]:
+        """Decisions whose finding no longer exists: kept, never dropped."""
+        keys = {f.key for f in self.findings}
+        return [d for k, d in sorted(self.record.decisions.items()) if k not in keys]
 
     @property
     def beyond_elv(self) -> bool:
@@ -57,21 +76,28 @@ class Review:
         return fails[0].severity if fails else None
 
 
-def answers_of(design: Design) -> dict[str, tuple[str, str]]:
+def answers_of(design: Design, record: rec.Record | None = None) -> dict[str, tuple[str, str]]:
+    """Checklist answers: the design's ``[checklist]``, overridden by the record's answers."""
     out = {}
     for qid, a in design.checklist.items():
         out[qid] = (a, "") if isinstance(a, str) else (a.answer, a.note)
+    for qid, a in (record.answers if record else {}).items():
+        out[qid] = (a.answer, a.note)
     return out
 
 
-def review_design(design: Design, path: str, book: Rulebook) -> Review:
+def review_design(design: Design, path: str, book: Rulebook,
+                  record: rec.Record | None = None) -> Review:
+    record = record or rec.Record(design=Path(path).name)
     sheet = compute(design)
-    findings = evaluate(book, sheet, answers_of(design))
-    return Review(path, design, sheet, tuple(findings))
+    findings = evaluate(book, sheet, answers_of(design, record))
+    return Review(path, design, sheet, tuple(findings), record)
 
 
 def review_file(path: str | Path, rule_files: list[Path] | None = None,
-                book: Rulebook | None = None) -> Review:
-    """Load the design at ``path`` and review it with the built-in rules plus ``rule_files``."""
+                book: Rulebook | None = None, use_record: bool = True) -> Review:
+    """Review the design at ``path`` with the built-in rules plus ``rule_files``, and its record
+    (``NAME.review.toml`` beside it) when there is one."""
     design = load_design(path)
-    return review_design(design, str(path), book or load_rulebook(rule_files))
+    record = rec.load(rec.record_path(path), Path(path).name) if use_record else None
+    return review_design(design, str(path), book or load_rulebook(rule_files), record)

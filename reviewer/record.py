@@ -1,0 +1,221 @@
+"""The review record: decisions, notes, checklist answers and proposed changes for one design.
+
+Kept in a TOML file beside the design (``NAME.review.toml`` for ``NAME.toml``), written with
+tomli-w atomically, in a stable order so that it diffs well under version control. Decisions are
+keyed by finding key (rule id and subject), so they survive revisions of the design; each keeps
+the numbers it was made on, so that a decision made on numbers that have since moved is flagged
+for re-confirmation rather than silently carried over. Nothing in a record is ever dropped: a
+decision whose rule no longer exists is kept as an orphan.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+from datetime import datetime, timezone
+from pathlib import Path
+from typing import Any, Literal
+
+from reviewer.errors import InputError, Problem
+from reviewer.findings import Finding
+
+FORMAT = "bridge-reviewer/record"
+VERSION = 1
+KINDS = ("undecided", "will_change", "accepted", "not_applicable")
+"""undecided: not yet judged; will_change: the design will be changed; accepted: the finding is
+accepted as it stands, with a reason; not_applicable: the finding does not apply, with a reason."""
+NEEDS_REASON = ("accepted", "not_applicable")
+ANSWERS = ("yes", "no", "not_applicable")
+RECONFIRM_TOLERANCE = 0.02
+"""A decision's numbers have moved when the value or the limit changed by more than this
+fraction of its old magnitude (2 %), or the margin changed sign."""
+
+Kind = Literal["undecided", "will_change", "accepted", "not_applicable"]
+
+
+@dataclass(frozen=True)
+class Decision:
+    key: str
+    kind: str
+    reason: str = ""
+    reviewer: str = ""
+    at: str = ""
+    outcome: str = ""
+    value: float | None = None
+    limit: float | None = None
+    unit: str = ""
+
+
+@dataclass(frozen=True)
+class Answer:
+    question: str
+    answer: str
+    note: str = ""
+    reviewer: str = ""
+    at: str = ""
+
+
+@dataclass(frozen=True)
+class Proposal:
+    """A what-if change: the design field, the value proposed (as the user wrote it), a note."""
+
+    field: str
+    value: str
+    note: str = ""
+    reviewer: str = ""
+    at: str = ""
+
+
+@dataclass(frozen=True)
+class Record:
+    design: str = ""
+    decisions: dict[str, Decision] = field(default_factory=dict)
+    answers: dict[str, Answer] = field(default_factory=dict)
+    proposals: dict[str, Proposal] = field(default_factory=dict)
+
+
+def record_path(design_path: str | Path) -> Path:
+    p = Path(design_path)
+    return p.with_name(p.stem + ".review.toml")
+
+
+def now() -> str:
+    return datetime.now(timezone.utc).replace(microsecond=0).isoformat().replace("+00:00", "Z")
+
+
+class DecisionError(ValueError):
+    """A decision that cannot be recorded as asked (e.g. an acceptance without a reason)."""
+
+
+def decide(record: Record, finding: Finding, kind: str, reason: str = "", reviewer: str = "",
+           at: str | None = None) -> Record:
+    """Record ``kind`` for ``finding``, with the numbers it is made on."""
+    if kind not in KINDS:
+        raise DecisionError(f"a decision is one of {', '.join(KINDS)}; found {kind!r}")
+    if kind in NEEDS_REASON and not reason.strip():
+        raise DecisionError(f"'{kind}' needs a reason: say why")
+    d = Decision(finding.key, kind, reason.strip(), reviewer, at or now(), finding.outcome,
+                 finding.value, finding.limit, finding.unit)
+    return replace(record, decisions={**record.decisions, finding.key: d})
+
+
+def note(record: Record, key: str, text: str, reviewer: str = "") -> Record:
+    """Change the note (reason) of a decision, keeping its kind; an undecided one if none."""
+    old = record.decisions.get(key) or Decision(key, "undecided")
+    if old.kind in NEEDS_REASON and not text.strip():
+        raise DecisionError(f"'{old.kind}' needs a reason: say why")
+    d = replace(old, reason=text.strip(), reviewer=reviewer or old.reviewer, at=now())
+    return replace(record, decisions={**record.decisions, key: d})
+
+
+def answer(record: Record, question: str, value: str, note_text: str = "", reviewer: str = "",
+           at: str | None = None) -> Record:
+    if value not in ANSWERS:
+        raise DecisionError(f"an answer is one of {', '.join(ANSWERS)}; found {value!r}")
+    a = Answer(question, value, note_text.strip(), reviewer, at or now())
+    return replace(record, answers={**record.answers, question: a})
+
+
+def propose(record: Record, field_path: str, value: str, note_text: str = "",
+            reviewer: str = "") -> Record:
+    p = Proposal(field_path, value, note_text.strip(), reviewer, now())
+    return replace(record, proposals={**record.proposals, field_path: p})
+
+
+def withdraw(record: Record, field_path: str) -> Record:
+    return replace(record, proposals={k: v for k, v in record.proposals.items() if k != field_path})
+
+
+# states of a decision against the current review ------------------------------------------------
+STATES = ("current", "reconfirm", "resolved", "orphan")
+"""current: the finding stands on the numbers the decision was made on; reconfirm: its numbers
+have moved (or it changed outcome) since; resolved: the finding no longer fails after a
+revision; orphan: no current finding has this key (rule renamed or removed, subject gone)."""
+
+
+def _moved(old: float | None, new: float | None) -> bool:
+    if old is None or new is None:
+        return (old is None) != (new is None)
+    if math.isinf(old) or math.isinf(new):
+        return old != new
+    return abs(new - old) > RECONFIRM_TOLERANCE * max(abs(old), 1e-30) * (1 + 1e-9)
+
+
+def state(d: Decision, f: Finding | None) -> str:
+    if f is None:
+        return "orphan"
+    if d.outcome == "fail" and f.outcome in ("pass", "not_applicable", "answered"):
+        return "resolved"
+    if f.outcome != d.outcome:
+        return "reconfirm"
+    if _moved(d.value, f.value) or _moved(d.limit, f.limit):
+        return "reconfirm"
+    return "current"
+
+
+# the file ---------------------------------------------------------------------------------------
+def _clean(d: dict[str, Any]) -> dict[str, Any]:
+    return {k: v for k, v in d.items() if v is not None and v != ""}
+
+
+def to_toml(record: Record) -> str:
+    import tomli_w
+
+    data: dict[str, Any] = {"format": FORMAT, "version": VERSION, "design": record.design}
+    if record.decisions:
+        data["decision"] = [_clean(vars(d)) for _, d in sorted(record.decisions.items())]
+    if record.answers:
+        data["answer"] = [_clean(vars(a)) for _, a in sorted(record.answers.items())]
+    if record.proposals:
+        data["proposal"] = [_clean(vars(p)) for _, p in sorted(record.proposals.items())]
+    head = ("# Review record for the design named below: decisions, notes, answers and proposed\n"
+            "# changes. Written by the reviewer tool; safe to read, diff and commit.\n")
+    return head + tomli_w.dumps(data)
+
+
+def save(record: Record, path: str | Path) -> None:
+    from reviewer.atomic import write_text
+
+    write_text(path, to_toml(record))
+
+
+def load(path: str | Path, design: str = "") -> Record:
+    """Read a record file; an absent file is an empty record. Bad files raise InputError."""
+    p = Path(path)
+    if not p.exists():
+        return Record(design=design)
+    from reviewer.design.loader import read_toml
+
+    text = p.read_text(encoding="utf-8")
+    data = read_toml(text, str(p))
+    from reviewer.design.tomlpos import key_lines, line_of
+
+    lines = key_lines(text)
+    problems: list[Problem] = []
+    if data.get("format") != FORMAT:
+        problems.append(Problem(str(p), line_of(lines, ("format",)), "format",
+                                f"expected {FORMAT!r}, found {data.get('format')!r}"))
+    if data.get("version") != VERSION:
+        problems.append(Problem(str(p), line_of(lines, ("version",)), "version",
+                                f"expected {VERSION} (this tool's record version), found "
+                                f"{data.get('version')!r}"))
+    tables = {"decision": (Decision, "key"), "answer": (Answer, "question"),
+              "proposal": (Proposal, "field")}
+    out: dict[str, dict[str, Any]] = {k: {} for k in tables}
+    for name, (cls, key) in tables.items():
+        for i, row in enumerate(data.get(name, [])):
+            where = (name, str(i))
+            try:
+                item = cls(**row)
+            except TypeError as e:
+                problems.append(Problem(str(p), line_of(lines, where), f"{name}[{i}]",
+                                        f"not a valid {name}: {e}"))
+                continue
+            if name == "decision" and item.kind not in KINDS:
+                problems.append(Problem(str(p), line_of(lines, where + ("kind",)),
+                                        f"{name}[{i}].kind", f"expected one of {KINDS}, found {item.kind!r}"))
+                continue
+            out[name][getattr(item, key)] = item
+    if problems:
+        raise InputError(problems)
+    return Record(data.get("design", design), out["decision"], out["answer"], out["proposal"])
