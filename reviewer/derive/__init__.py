@@ -5,6 +5,6 @@ Each module has ``QUANTITIES`` (what it may publish, declared with unit and labe
 one published with ``ctx.q(name)``.
 """
 
-from reviewer.derive import band, operating, stress
+from reviewer.derive import band, bootstrap, gate, operating, stress, switching, thermal
 
-MODULES = [operating, band, stress]
+MODULES = [operating, band, gate, switching, stress, thermal, bootstrap]

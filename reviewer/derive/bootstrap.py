@@ -1,0 +1,66 @@
+"""Bootstrap supply of an N-channel high side: the charge one on-time takes, the capacitance it
+needs and the gate voltage left at the end of the longest on-time the modulation asks for."""
+
+from __future__ import annotations
+
+from reviewer.physics import bootstrap as bp
+from reviewer.quantities import Ctx, declare
+
+QUANTITIES = declare(
+    ("bootstrap.t_on_max", "s", "Longest continuous high-side on-time the modulation asks for"),
+    ("bootstrap.vgs_needed", "V", "Gate-source voltage the high side needs while on"),
+    ("bootstrap.droop_allowed", "V", "Droop allowed: V_cc − V_f − V_GS,needed"),
+    ("bootstrap.charge", "C", "Charge taken from the capacitor in the longest on-time"),
+    ("bootstrap.c_min", "F", "Smallest bootstrap capacitance, Q_total / ΔV"),
+    ("bootstrap.c_practice", "F", "Ten times the minimum (common practice)"),
+    ("bootstrap.gate_end", "V", "High-side gate-source voltage at the end of the longest on-time"),
+)
+
+NAMES = [d.pattern for d in QUANTITIES]
+
+
+def derive(ctx: Ctx) -> None:
+    if ctx.v("drive.high.kind") != "bootstrap_driver":
+        return
+    with ctx.section(*NAMES):
+        if ctx.v("switch.high.polarity") != "n":
+            return
+        cap, vcc = ctx.need("bootstrap.capacitor", "bootstrap.supply")
+        vf = ctx.v("bootstrap.diode_vf")
+        kind = ctx.v("modulation.kind")
+        t_on = bp.longest_on_time(kind, ctx.need("output.frequency"),
+                                  notch_angle=ctx.v("modulation.notch_angle") or 0.0,
+                                  index=ctx.v("modulation.index"),
+                                  f_carrier=ctx.v("modulation.carrier"))
+        ctx.publish("bootstrap.t_on_max", t_on)
+
+        spec = ctx.v("switch.high.rds_on_vgs")
+        if spec is None:
+            spec = 2 * ctx.need("switch.high.vth")
+            why = "R_DS(on) drive level not given: twice V_th,max"
+        else:
+            why = "the V_GS R_DS(on) is specified at"
+        uvlo = ctx.v("drive.high.uvlo")
+        needed = max(spec, uvlo) if uvlo is not None else spec
+        if uvlo is not None and uvlo > spec:
+            why = "the driver's undervoltage lockout"
+        ctx.publish("bootstrap.vgs_needed", needed, why)
+        dv = bp.allowed_droop(vcc, vf, needed)
+        ctx.publish("bootstrap.droop_allowed", dv)
+
+        qg = ctx.need("switch.high.qg") * int(ctx.v("switch.high.count"))
+        i_dc = ctx.v("bootstrap.quiescent_current") + ctx.v("bootstrap.leakage_current")
+        pull = ctx.v("drive.high.pull_resistor") if ctx.v("drive.high.pull_to") != "none" else None
+        v_start = vcc - vf
+        # a gate-source pull resistor draws from the capacitor all through the on-time; for the
+        # minimum capacitance it is counted at its largest current, V_start / R (conservative)
+        i_pull = v_start / pull if pull else 0.0
+        q = bp.bootstrap_charge(qg, i_dc + i_pull, 0.0, t_on, ctx.v("bootstrap.level_shift_charge"))
+        ctx.publish("bootstrap.charge", q,
+                    "includes the gate pull resistor's current" if pull else "")
+        c_min = bp.minimum_capacitance(q, dv)
+        ctx.publish("bootstrap.c_min", c_min)
+        ctx.publish("bootstrap.c_practice", bp.practice_capacitance(c_min))
+        v_end = bp.gate_voltage_after(v_start - ctx.v("bootstrap.level_shift_charge") / cap, cap, qg,
+                                      i_dc, t_on, pull if pull else float("inf"))
+        ctx.publish("bootstrap.gate_end", v_end)

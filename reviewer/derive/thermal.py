@@ -1,0 +1,108 @@
+"""Losses and junction temperature of each switch, R_DS(on) solved together with T_j.
+
+The load current is the fundamental estimate of :mod:`reviewer.derive.operating` (a sinusoid
+at the output frequency, lagging by the load's angle) until a waveform module publishes the
+harmonics; every loss figure carries that assumption in its note.
+"""
+
+from __future__ import annotations
+
+import math
+
+from reviewer.physics import thermal as tp
+from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+
+TJ_MARGIN = 25.0
+"""Margin below T_j,max the heatsink figure is solved for [°C]; the rule's default margin."""
+
+FUNDAMENTAL = "from the load current's fundamental (harmonics not yet included)"
+
+QUANTITIES = declare(
+    ("thermal.load_angle", "rad", "Load current lag behind the bridge voltage's fundamental"),
+    ("thermal.{side}.device_rms", "A", "RMS channel current of the most loaded device"),
+    ("thermal.{side}.device_switched", "A", "Mean current at the edges, most loaded device"),
+    ("thermal.{side}.conduction_loss", "W", "Conduction loss per device at the solved T_j"),
+    ("thermal.{side}.switching_loss", "W", "Switching (overlap and C_oss) loss per device"),
+    ("thermal.{side}.diode_loss", "W", "Body-diode loss in dead time per device"),
+    ("thermal.{side}.power", "W", "Total loss per device at the solved T_j"),
+    ("thermal.{side}.rth", "K/W", "Junction-to-ambient thermal resistance per device"),
+    ("thermal.{side}.tj", "°C", "Junction temperature (∞ when there is no steady state)"),
+    ("thermal.{side}.rds_hot", "Ω", "R_DS(on) at the solved junction temperature"),
+    ("thermal.{side}.runaway", "", "No steady junction temperature: thermal runaway", "flag"),
+    ("thermal.{side}.rth_total_max", "K/W", "Largest junction-to-ambient resistance keeping "
+     "T_j ≤ T_j,max − 25 °C"),
+    ("thermal.{side}.rth_sa_max", "K/W", "Largest sink-to-ambient resistance keeping "
+     "T_j ≤ T_j,max − 25 °C"),
+)
+
+
+def load_angle(ctx: Ctx) -> float:
+    kind = ctx.v("load.kind")
+    if kind == "r_l":
+        r, l_ = ctx.need("load.resistance", "load.inductance")
+        return math.atan2(2 * math.pi * ctx.need("output.frequency") * l_, r)
+    if kind == "power_factor":
+        return math.acos(min(max(ctx.need("load.power_factor"), 0.0), 1.0))
+    return 0.0
+
+
+def derive(ctx: Ctx) -> None:
+    with ctx.section("thermal.load_angle"):
+        ctx.publish("thermal.load_angle", load_angle(ctx), "load inductance only; a transformer's "
+                    "magnetising current is not included")
+    kind = ctx.v("modulation.kind")
+    for side in SIDES:
+        sw = f"switch.{side}"
+        names = [f"thermal.{side}.{k}" for k in (
+            "device_rms", "device_switched", "conduction_loss", "switching_loss", "diode_loss",
+            "power", "rth", "tj", "rds_hot", "runaway", "rth_total_max", "rth_sa_max")]
+        with ctx.section(*names):
+            i_pk = ctx.q("op.load_current_peak")
+            phi = ctx.q("thermal.load_angle")
+            alpha = ctx.v("modulation.notch_angle") or 0.0
+            index = ctx.v("modulation.index") or 1.0
+            n = int(ctx.v(f"{sw}.count"))
+            c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=min(index, 1.0))
+            rms = c.high_rms if side == "high" else c.low_rms
+            i_dev = float(tp.device_current(rms, n))
+            i_sw = float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha), n))
+            ctx.publish(f"thermal.{side}.device_rms", i_dev, FUNDAMENTAL)
+            ctx.publish(f"thermal.{side}.device_switched", i_sw, FUNDAMENTAL)
+
+            rds, coss, vf = ctx.need(f"{sw}.rds_on", f"{sw}.coss", f"{sw}.diode_vf")
+            f_sw = ctx.q("op.switching_frequency")
+            v = ctx.q("op.bus_max")
+            tr, tf = ctx.q(f"switching.{side}.rise_time"), ctx.q(f"switching.{side}.fall_time")
+            p_sw = tp.switching_loss(v, i_sw, tr, tf, f_sw) + tp.coss_loss(coss, v, f_sw)
+            dead = max(ctx.q(f"timing.{s}.dead_time") for s in SIDES)
+            # each body diode carries the current at half of the leg's dead intervals
+            p_d = tp.body_diode_loss(vf, i_sw / 2, dead, f_sw)
+            ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)
+            ctx.publish(f"thermal.{side}.diode_loss", p_d, FUNDAMENTAL)
+
+            try:
+                rth = tp.thermal_resistance(ctx.v(f"{sw}.rth_jc"), ctx.v(f"{sw}.rth_cs"),
+                                            ctx.v(f"{sw}.rth_sa"), ctx.v(f"{sw}.rth_ja"))
+            except ValueError:
+                raise NeedsData(f"{sw}.rth_ja", f"{sw}.rth_jc", f"{sw}.rth_sa") from None
+            ctx.publish(f"thermal.{side}.rth", rth)
+            model = dict(rds_ref=rds, t_ref=ctx.v(f"{sw}.rds_on_temp"),
+                         hot_factor=ctx.v(f"{sw}.rds_hot_factor"), t_hot=ctx.v(f"{sw}.rds_hot_temp"))
+            ta = ctx.v("environment.ambient")
+            sol = tp.solve_junction_temperature(ta, rth, i_dev, p_other=p_sw + p_d, **model)
+            ctx.publish(f"thermal.{side}.runaway", not sol.converged)
+            if sol.converged:
+                ctx.publish(f"thermal.{side}.tj", sol.t_j)
+                ctx.publish(f"thermal.{side}.rds_hot", sol.rds_on)
+                ctx.publish(f"thermal.{side}.conduction_loss", sol.power - p_sw - p_d, FUNDAMENTAL)
+                ctx.publish(f"thermal.{side}.power", sol.power, FUNDAMENTAL)
+            else:
+                ctx.publish(f"thermal.{side}.tj", math.inf, sol.message)
+            t_lim = ctx.v(f"{sw}.tj_max") - TJ_MARGIN
+            total = tp.largest_total_resistance(t_lim, ta, i_dev, p_other=p_sw + p_d, **model)
+            ctx.publish(f"thermal.{side}.rth_total_max", total,
+                        f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")
+            jc = ctx.v(f"{sw}.rth_jc")
+            if jc is not None:
+                ctx.publish(f"thermal.{side}.rth_sa_max", total - jc - (ctx.v(f"{sw}.rth_cs") or 0.0),
+                            f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")
