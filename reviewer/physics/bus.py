@@ -319,3 +319,56 @@ def local_capacitance(i_peak: Any, f_sw: Any, dv_allowed: Any, duty: Any = 0.5) 
     capacitor is the same calculation).
     """
     return i_peak * duty * (1 - duty) / (f_sw * dv_allowed)
+
+
+def local_voltage_step(i_peak: Any, f_sw: Any, capacitance: Any, duty: Any = 0.5) -> Any:
+    """Peak-to-peak step across a leg's local capacitor: :func:`local_capacitance` solved for ΔV.
+
+    Parameters
+    ----------
+    i_peak : float or ndarray
+        Peak leg current [A].
+    f_sw : float or ndarray
+        Switching frequency [Hz].
+    capacitance : float or ndarray
+        Local capacitance across the leg [F].
+    duty : float or ndarray
+        Duty cycle D [unitless] (default ½, the worst case).
+
+    Returns
+    -------
+    float or ndarray
+        ``ΔV = I_peak · D · (1 − D) / (f_sw · C)`` [V].
+
+    References
+    ----------
+    Erickson & Maksimović (2001), ch. 2, capacitor charge balance.
+    """
+    return i_peak * duty * (1 - duty) / (f_sw * capacitance)
+
+
+def edge_voltage_step(i_peak: Any, t_edge: Any, capacitance: Any) -> Any:
+    """Dip across a leg's local capacitor while it supplies one switching edge.
+
+    Through an edge the inductance of the leads to the bulk capacitors holds their current, so the
+    change of leg current comes from the local capacitor: it gives up about ``Q = I_peak · t_edge``.
+
+    Parameters
+    ----------
+    i_peak : float or ndarray
+        Current commutated at the edge [A].
+    t_edge : float or ndarray
+        Duration of the edge [s].
+    capacitance : float or ndarray
+        Local capacitance across the leg [F].
+
+    Returns
+    -------
+    float or ndarray
+        ``ΔV = I_peak · t_edge / C`` [V] (an upper bound: the current ramps through the edge).
+
+    References
+    ----------
+    Charge on a capacitor, Q = C·ΔV; Mohan, Undeland & Robbins (2003), switching transients.
+    """
+    return i_peak * t_edge / capacitance

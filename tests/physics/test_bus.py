@@ -123,3 +123,13 @@ def test_local_capacitance_charge_balance():
     leg = np.where(t < d / f_sw, i_peak, 0.0)
     v = np.cumsum(-(leg - leg.mean())) / (n * f_sw) / c
     assert float(v.max() - v.min()) == pytest.approx(0.5, rel=1e-3)
+
+
+def test_local_voltage_step_inverts_local_capacitance():
+    # Same charge balance: 500 µF carrying 20 A pulses at 20 kHz, D = ½, steps by 0.5 V.
+    assert bus.local_voltage_step(20.0, 20e3, 500e-6) == pytest.approx(0.5)
+
+
+def test_edge_voltage_step_hand_calculation():
+    # Q = C·ΔV: 12 A drawn for 100 ns from 10 µF: ΔV = 12 · 100e-9 / 10e-6 = 0.12 V.
+    assert bus.edge_voltage_step(12.0, 100e-9, 10e-6) == pytest.approx(0.12)
