@@ -5,6 +5,8 @@ Each module has ``QUANTITIES`` (what it may publish, declared with unit and labe
 one published with ``ctx.q(name)``.
 """
 
-from reviewer.derive import band, bootstrap, gate, operating, stress, switching, thermal
+from reviewer.derive import (band, bootstrap, bus, gate, grounding, isolation, layout, operating,
+                             protection, stress, switching, thermal)
 
-MODULES = [operating, band, gate, switching, stress, thermal, bootstrap]
+MODULES = [operating, band, gate, switching, stress, thermal, bootstrap, bus, protection, isolation,
+           layout, grounding]
