@@ -6,7 +6,7 @@ one published with ``ctx.q(name)``.
 """
 
 from reviewer.derive import (band, bootstrap, bus, gate, grounding, isolation, layout, operating,
-                             protection, stress, switching, thermal)
+                             protection, stress, switching, thermal, waveform)
 
-MODULES = [operating, band, gate, switching, stress, thermal, bootstrap, bus, protection, isolation,
-           layout, grounding]
+MODULES = [operating, waveform, band, gate, switching, stress, thermal, bootstrap, bus, protection,
+           isolation, layout, grounding]

@@ -168,12 +168,16 @@ def transfer(freq: "np.ndarray | float", inductance: float, capacitance: float, 
     ----------
     Erickson & Maksimović (2001), ch. 10; voltage divider of series and shunt branches.
     """
+    import numpy as np
+
     zs = dcr + 1j * _w(freq) * inductance
     yp = shunt_admittance(freq, capacitance, load_resistance=load_resistance,
                           load_inductance=load_inductance,
                           damping_resistance=damping_resistance,
                           damping_capacitance=damping_capacitance)
-    return 1.0 / (1.0 + zs * yp)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        # a lossless, unloaded filter has infinite gain exactly at its corner
+        return np.where(1.0 + zs * yp == 0, np.inf, 1.0 / (1.0 + zs * yp))
 
 
 def corner_frequency(inductance: float, capacitance: float) -> float:
@@ -255,6 +259,8 @@ def peak_gain(inductance: float, capacitance: float, **circuit: float | None) ->
     f = f_c * 10.0 ** x
     g = np.abs(transfer(f, inductance, capacitance, **circuit))
     i = int(np.argmax(g))
+    if not np.isfinite(g[i]):
+        return math.inf, float(f[i])
     if 0 < i < g.size - 1:
         y0, y1, y2 = g[i - 1], g[i], g[i + 1]
         den = y0 - 2 * y1 + y2
@@ -397,7 +403,9 @@ def respond(freq: "np.ndarray", v_bridge: "np.ndarray", inductance: float,
     y_load = load_admittance(freq, load_resistance, load_inductance)
     y_c = 1j * w * capacitance
     yp = y_c + damping_admittance(freq, damping_resistance, damping_capacitance) + y_load
-    h = 1.0 / (1.0 + (dcr + 1j * w * inductance) * yp)
+    den = 1.0 + (dcr + 1j * w * inductance) * yp
+    with np.errstate(divide="ignore", invalid="ignore"):
+        h = np.where(den == 0, np.inf, 1.0 / den)
     v_out = h * v_bridge
     i_l = yp * v_out
     i_load = y_load * v_out
