@@ -276,8 +276,12 @@ def catalogue() -> dict[str, Declared]:
     return out
 
 
-def compute(design: Any, max_runs: int = 400) -> Sheet:
-    """Run every derive module over the design's tolerance corners and return the sheet."""
+def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None) -> Sheet:
+    """Run every derive module over the design's tolerance corners and return the sheet.
+
+    ``focus`` names the quantities whose extremes matter (those the rules judge); the third
+    pass makes corner runs for these only. None: every published number.
+    """
     from reviewer.derive import MODULES
 
     cat = catalogue()
@@ -302,7 +306,7 @@ def compute(design: Any, max_runs: int = 400) -> Sheet:
 
     typ_out = ctxs[0].out
     seen = {(): 0}
-    numeric = [n for n, v in typ_out.items() if _is_number(v)]
+    numeric = [n for n, v in typ_out.items() if _is_number(v) and (focus is None or n in focus)]
     for n in numeric:
         for direction in (1, -1):
             assign: dict[str, str] = {}

@@ -86,10 +86,16 @@ def answers_of(design: Design, record: rec.Record | None = None) -> dict[str, tu
     return out
 
 
+def judged_names(book: Rulebook) -> frozenset[str]:
+    """The quantities whose worst corners the rules judge (value, limit and flag expressions)."""
+    return frozenset(n for c in book.compiled for e in (c.value, c.limit, c.fails_when)
+                     if e is not None for n in e.names)
+
+
 def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
-    sheet = compute(design)
+    sheet = compute(design, focus=judged_names(book))
     findings = evaluate(book, sheet, answers_of(design, record))
     return Review(path, design, sheet, tuple(findings), record)
 
