@@ -1,0 +1,83 @@
+"""The §3.6 bootstrap rules end to end.
+
+C ≥ Q_total/ΔV with Q_total = Q_g + (I_q + I_leak)·t_on,max + Q_ls and ΔV = V_cc − V_f −
+V_GS,needed (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., §23-4), written out term
+by term; ten times the minimum is common practice.
+"""
+
+
+import pytest
+from scipy.integrate import solve_ivp
+
+from tests.bridge_base import bridge
+from tests.conftest import assert_fails, finding, review_text
+from tests.test_gate_rules import review_file
+
+# Square wave at 50 Hz: t_on,max = 10 ms. Q = 40 nC + 100 µA × 10 ms + 0 = 1.04 µC.
+# ΔV = 12 − 0.7 − 10 = 1.3 V. C_min = 1.04 µC / 1.3 V = 800 nF.
+C_MIN = (40e-9 + 100e-6 * 10e-3) / (12 - 0.7 - 10)
+
+
+def boot(cap: float, *extra):
+    return bridge(("modulation", "kind", '"square"'), ("drive.high", "kind", '"bootstrap_driver"'),
+                  ("drive.high", "pull_to", '"none"'),
+                  ("bootstrap", "capacitor", f'"{cap!r} F"'), ("bootstrap", "supply", '"12 V"'),
+                  ("bootstrap", "quiescent_current", '"100 µA"'), *extra)
+
+
+@pytest.mark.parametrize("cap, outcome", [(C_MIN, "pass"), (0.99 * C_MIN, "fail")])
+def test_capacitance_threshold(cap, outcome):
+    f = finding(review_text(boot(cap)), "bootstrap.gate-droop")
+    assert f.outcome == outcome
+    assert f.limit == pytest.approx(10.0)
+    if outcome == "fail":
+        assert f.pass_value == pytest.approx(C_MIN, rel=1e-9)
+        assert f.severity == "hazard"
+
+
+@pytest.mark.parametrize("scale, outcome", [(10.0, "pass"), (9.9, "fail")])
+def test_ten_times_practice(scale, outcome):
+    f = finding(review_text(boot(scale * C_MIN)), "bootstrap.capacitance-practice")
+    assert f.outcome == outcome
+
+
+def test_pull_resistor_drains_the_capacitor_against_ode():
+    # With a 47 kΩ gate-source resistor: dV/dt = −(I_q + V/R)/C after the gate charge is
+    # shared out (V₀ = 11.3 − 40 nC/C), integrated by scipy over 10 ms.
+    cap, r = 10e-6, 47e3
+    text = boot(cap, ("drive.high", "pull_to", '"source"'), ("drive.high", "pull_resistor", '"47 kΩ"'))
+    f = finding(review_text(text), "bootstrap.gate-droop")
+    v0 = 11.3 - 40e-9 / cap
+    sol = solve_ivp(lambda t, v: [-(100e-6 + v[0] / r) / cap], (0, 10e-3), [v0], rtol=1e-10)
+    assert f.value == pytest.approx(sol.y[0][-1], rel=1e-6)
+    # The minimum counts the resistor at its largest current, 11.3 V/47 kΩ, for the whole 10 ms.
+    q = 40e-9 + (100e-6 + 11.3 / r) * 10e-3
+    from reviewer.quantities import compute
+    from reviewer.design import parse_design
+    sheet = compute(parse_design(text))
+    assert sheet.value("bootstrap.c_min") == pytest.approx(q / 1.3)
+
+
+def test_uvlo_above_the_drive_spec_sets_the_need():
+    f = finding(review_text(boot(C_MIN, ("drive.high", "uvlo", '"10.5 V"'))), "bootstrap.gate-droop")
+    assert f.limit == pytest.approx(10.5) and f.outcome == "fail"
+
+
+def test_not_applicable_without_a_bootstrap_driver():
+    assert finding(review_text(bridge()), "bootstrap.gate-droop").outcome == "not_applicable"
+
+
+def test_quasi_square_example_cannot_hold_the_gate():
+    r = review_file("nchannel_bootstrap_quasi")
+    assert_fails(r, {"bootstrap.gate-droop", "bootstrap.capacitance-practice"}, area="bootstrap")
+    f = finding(r, "bootstrap.gate-droop")
+    # Half a 20 ms period minus the notches: (180° − 2 × 23°)/360° × 20 ms = 7.444 ms.
+    assert "7.44 ms" in f.mitigation
+    # Q = 55 nC + (150 µA + 10 µA + 11.3 V/47 kΩ) × 7.444 ms + 5 nC over 1.3 V
+    q = 55e-9 + (160e-6 + 11.3 / 47e3) * (134 / 360 * 20e-3) + 5e-9
+    assert f.pass_value == pytest.approx(q / 1.3, rel=1e-9)
+
+
+@pytest.mark.parametrize("name", ["naive_bench_pchannel", "careful_12v_sine", "mains_output_transformer"])
+def test_other_examples(name):
+    assert_fails(review_file(name), set(), area="bootstrap")

@@ -1,0 +1,137 @@
+"""The §3.4 timing rules end to end: dead time, shoot-through, dv/dt turn-on, pulse widths.
+
+Switching times by the gate-charge method (Mohan, Undeland & Robbins, Power Electronics, 3rd ed.,
+§22-4), worked by hand for the test bridge (10 Ω loop, C_iss 2 nF, Q_gd 10 nC, V_th 3 V,
+V_pl 5 V, 0 → 12 V): t_d(on) = 20 ns·ln(12/9); turn-off to cutoff = 20 ns·ln(12/5) +
+10 nC·10 Ω/5 V + 20 ns·ln(5/3). Dead-time relations from Holmes & Lipo (2003) §3.6; the +50 %
+allowance is common practice.
+"""
+
+import math
+
+import pytest
+from scipy.integrate import solve_ivp
+
+from reviewer.units import render
+from tests.bridge_base import bridge
+from tests.conftest import assert_fails, finding, review_text
+from tests.test_gate_rules import review_file
+
+TD_ON = 20e-9 * math.log(12 / 9)                                     # 5.754 ns
+T_OFF = 20e-9 * math.log(12 / 5) + 10e-9 * 10 / 5 + 20e-9 * math.log(5 / 3)   # 47.726 ns
+NEEDED = T_OFF - TD_ON                                               # 41.972 ns
+
+
+def test_clean_bridge_passes_every_timing_rule():
+    assert_fails(review_text(bridge()), set(), area="timing")
+
+
+def test_zero_dead_time_and_shared_signal_are_hazards():
+    r = review_text(bridge(("timing", "dead_time", '"0 s"')))
+    f = finding(r, "timing.no-dead-time")
+    assert f.outcome == "fail" and f.severity == "hazard"
+    assert finding(r, "timing.shoot-through[high]").outcome == "fail"
+    r = review_text(bridge(("drive", "shared_signal", "true")))
+    assert finding(r, "timing.no-dead-time").outcome == "fail"
+
+
+@pytest.mark.parametrize("scale, outcome", [(1.0, "pass"), (0.98, "fail")])
+def test_shoot_through_threshold(scale, outcome):
+    # Dead time exactly t_off − t_d(on) = 41.97 ns: no overlap; 2 % less: overlap.
+    r = review_text(bridge(("timing", "dead_time", f'"{NEEDED * scale!r} s"')))
+    f = finding(r, "timing.shoot-through[low]")
+    assert f.outcome == outcome
+    if outcome == "fail":
+        assert f.value == pytest.approx(NEEDED * 0.98, rel=1e-6)
+        assert render(NEEDED * 0.02, "s") in f.mitigation          # the overlap
+        assert f.pass_value == pytest.approx(1.5 * NEEDED, rel=1e-6)
+        assert f.severity == "hazard"
+
+
+@pytest.mark.parametrize("scale, outcome", [(1.0, "pass"), (0.99, "fail")])
+def test_dead_time_allowance_threshold(scale, outcome):
+    # 1.5 × 41.97 ns = 62.96 ns
+    r = review_text(bridge(("timing", "dead_time", f'"{1.5 * NEEDED * scale!r} s"')))
+    f = finding(r, "timing.dead-time-margin[high]")
+    assert f.outcome == outcome and f.limit == pytest.approx(1.5 * NEEDED, rel=1e-6)
+
+
+def test_pull_resistor_only_turn_off_and_its_mitigation_values():
+    # The low side loses its active sink: its gate discharges through 10 kΩ alone.
+    text = bridge(("drive.low", "r_sink", None), ("timing", "dead_time", '"1 µs"'))
+    r = review_text(text)
+    f = finding(r, "timing.shoot-through[high]")
+    # 10 kΩ × 2 nF = 20 µs: 20 µs·ln(12/5) + 10 nC·10 kΩ/5 V + 20 µs·ln(5/3) = 47.73 µs
+    t_off = 1e3 * T_OFF
+    assert f.outcome == "fail"
+    assert f.value == pytest.approx(1e-6) and f.limit == pytest.approx(t_off - TD_ON, rel=1e-6)
+    assert render(t_off - 1e-6 - TD_ON, "s") in f.mitigation     # the overlap
+    assert f.pass_value == pytest.approx(1.5 * (t_off - TD_ON), rel=1e-6)
+    assert "10 kΩ pull resistor" in f.mitigation
+    # Largest turn-off resistance for 1 µs: (1 µs/1.5 + 5.754 ns)/(4.7726 ns/Ω) = 140.9 Ω;
+    # smallest sink: (2 nF·7 V + 10 nC + 2 nF·2 V)/(1 µs/1.5 + 5.754 ns) = 28 nC/672.4 ns = 41.6 mA.
+    allowed = 1e-6 / 1.5 + TD_ON
+    assert render(allowed / (T_OFF / 10.0), "Ω") in f.mitigation
+    assert render(28e-9 / allowed, "A") in f.mitigation
+
+
+def test_naive_bench_reports_turn_off_shoot_through_and_what_would_pass():
+    r = review_file("naive_bench_pchannel")
+    assert_fails(r, {"timing.no-dead-time", "timing.shoot-through[high]", "timing.shoot-through[low]",
+                     "timing.dvdt-turn-on[high]", "timing.dvdt-turn-on[low]", "timing.min-pulse"},
+                 area="timing")
+    for side in ("high", "low"):
+        f = finding(r, f"timing.shoot-through[{side}]")
+        assert "pull resistor, its only turn-off path" in f.mitigation
+        # tens of microseconds through 10 kΩ (gate-charge method with R_off = the pull resistor)
+        assert f.value == 0.0 and 10e-6 < f.limit < 1e-3
+        assert f.pass_value == pytest.approx(1.5 * f.limit, rel=1e-9)
+        assert "must be at most" in f.mitigation and "active sink of at least" in f.mitigation
+
+
+@pytest.mark.parametrize("dead, outcome", [('"750 ns"', "pass"), ('"760 ns"', "fail")])
+def test_dead_time_excess_threshold(dead, outcome):
+    # 2 × 750 ns × 20 kHz = 3 %
+    f = finding(review_text(bridge(("timing", "dead_time", dead))), "timing.dead-time-excess")
+    assert f.outcome == outcome
+    if outcome == "fail":
+        assert f.pass_value == pytest.approx(750e-9)
+
+
+def test_dvdt_induced_voltage_against_ode_and_threshold():
+    # Low side held by 10 Ω; the high side's t_r = 10 nC·10 Ω/(12 − 5) V = 14.29 ns sets
+    # dv/dt = 12 V/14.29 ns. (C_gs + C_gd)·dv_g/dt = C_gd·dv/dt − v_g/R over the ramp (scipy).
+    cgd, cgs, rh = 100e-12, 1.9e-9, 10.0
+    dvdt = 12.0 / (10e-9 * 10 / 7)
+    sol = solve_ivp(lambda t, v: [(cgd * dvdt - v[0] / rh) / (cgs + cgd)], (0, 12.0 / dvdt), [0.0],
+                    rtol=1e-10, atol=1e-14)
+    v = float(sol.y[0][-1])
+    f = finding(review_text(bridge()), "timing.dvdt-turn-on[low]")
+    assert f.value == pytest.approx(v, rel=1e-6)
+    # Threshold: 0.8 × (V_th − 0.625 V) = v  ⇒  V_th = v/0.8 + 0.625 V.
+    vth = v / 0.8 + 0.625
+    assert finding(review_text(bridge(("switch.low", "vth", f'"{vth!r} V"'))),
+                   "timing.dvdt-turn-on[low]").outcome == "pass"
+    f = finding(review_text(bridge(("switch.low", "vth", f'"{vth - 0.01!r} V"'))),
+                "timing.dvdt-turn-on[low]")
+    assert f.outcome == "fail"
+    # pass: R_hold ≤ limit/(C_gd·dv/dt) (linear envelope, conservative)
+    assert f.pass_value == pytest.approx(f.limit / (cgd * dvdt))
+
+
+@pytest.mark.parametrize("scale, outcome", [(1.0, "pass"), (1.02, "fail")])
+def test_min_pulse_threshold(scale, outcome):
+    # Three-level: (2/π)·asin(2·t·f_c/M) = 5 %  ⇒  t = M·sin(0.05·π/2)/(2 f_c) = 1.765 µs.
+    t = 0.9 * math.sin(0.05 * math.pi / 2) / (2 * 20e3) * scale
+    text = bridge(("modulation", "kind", '"spwm_unipolar"'), ("modulation", "min_pulse", f'"{t!r} s"'))
+    f = finding(review_text(text), "timing.min-pulse")
+    assert f.outcome == outcome
+
+
+@pytest.mark.parametrize("name, expected", [
+    ("nchannel_bootstrap_quasi", set()),
+    ("careful_12v_sine", set()),
+    ("mains_output_transformer", set()),
+])
+def test_example_designs(name, expected):
+    assert_fails(review_file(name), expected, area="timing")
