@@ -99,6 +99,11 @@ def decide(record: Record, finding: Finding, kind: str, reason: str = "", review
     return replace(record, decisions={**record.decisions, finding.key: d})
 
 
+def forget(record: Record, key: str) -> Record:
+    """Remove the decision on ``key``: only ever at the user's explicit request."""
+    return replace(record, decisions={k: v for k, v in record.decisions.items() if k != key})
+
+
 def note(record: Record, key: str, text: str, reviewer: str = "") -> Record:
     """Change the note (reason) of a decision, keeping its kind; an undecided one if none."""
     old = record.decisions.get(key) or Decision(key, "undecided")
@@ -112,6 +117,8 @@ def answer(record: Record, question: str, value: str, note_text: str = "", revie
            at: str | None = None) -> Record:
     if value not in ANSWERS:
         raise DecisionError(f"an answer is one of {', '.join(ANSWERS)}; found {value!r}")
+    if value == "not_applicable" and not note_text.strip():
+        raise DecisionError("'not_applicable' needs a note: say why the question does not apply")
     a = Answer(question, value, note_text.strip(), reviewer, at or now())
     return replace(record, answers={**record.answers, question: a})
 
@@ -141,6 +148,11 @@ def _moved(old: float | None, new: float | None) -> bool:
     return abs(new - old) > RECONFIRM_TOLERANCE * max(abs(old), 1e-30) * (1 + 1e-9)
 
 
+def moved(old: float | None, new: float | None) -> bool:
+    """True when a number moved beyond :data:`RECONFIRM_TOLERANCE` (or appeared / vanished)."""
+    return _moved(old, new)
+
+
 def state(d: Decision, f: Finding | None) -> str:
     if f is None:
         return "orphan"
@@ -151,6 +163,27 @@ def state(d: Decision, f: Finding | None) -> str:
     if _moved(d.value, f.value) or _moved(d.limit, f.limit):
         return "reconfirm"
     return "current"
+
+
+SETTLING = ("accepted", "not_applicable")
+"""Decision kinds that settle a failing finding (it no longer fails the build) while current."""
+
+
+def settles(d: Decision | None, f: Finding) -> bool:
+    """True when decision ``d`` settles failing finding ``f``: accepted or not applicable, made
+    on the numbers that still hold (state current). will_change and undecided never settle; a
+    decision awaiting re-confirmation does not either."""
+    return d is not None and d.kind in SETTLING and state(d, f) == "current"
+
+
+def reviewer_name() -> str:
+    """The user name from the environment (the default reviewer), or "" when there is none."""
+    import getpass
+
+    try:
+        return getpass.getuser()
+    except (OSError, KeyError, ImportError):
+        return ""
 
 
 # the file ---------------------------------------------------------------------------------------

@@ -60,6 +60,17 @@ class Review:
         return sorted((f for f in self.findings if f.outcome == "fail"),
                       key=lambda f: (order[f.severity], f.area, f.rule_id, f.subject))
 
+    def settled(self, f: Finding) -> bool:
+        """A failing finding settled by a current accepted / not-applicable decision."""
+        return rec.settles(self.record.decisions.get(f.key), f)
+
+    def unsettled(self, level: str = "advice") -> list[Finding]:
+        """Failing findings at or above severity ``level`` that no current decision settles:
+        what fails the build under ``--fail-on level``."""
+        worst = SEVERITIES.index(level)
+        return [f for f in self.failures
+                if SEVERITIES.index(f.severity) <= worst and not self.settled(f)]
+
     def by_outcome(self, outcome: str) -> list[Finding]:
         return [f for f in self.findings if f.outcome == outcome]
 

@@ -11,10 +11,14 @@ from reviewer.commands._common import LEVELS, emit, rule_files, use_color
 def register(sub) -> None:
     c = sub.add_parser("check", help="review designs and print the findings")
     c.add_argument("designs", nargs="+", type=Path, metavar="DESIGN")
-    c.add_argument("--format", choices=("text", "markdown", "json"), default="text")
-    c.add_argument("--output", "-o", type=Path, help="write the report to this file")
+    c.add_argument("--format", choices=("text", "markdown", "json", "sarif"), default="text")
+    c.add_argument("--output", "-o", type=Path,
+                   help="write the report to this file (Markdown: pictures are written beside it)")
+    c.add_argument("--no-pictures", action="store_true",
+                   help="Markdown to a file: do not write the SVG pictures beside it")
     c.add_argument("--fail-on", choices=LEVELS, default=None,
-                   help="exit 1 when a finding at or above this severity fails")
+                   help="exit 1 when a finding at or above this severity fails and no current "
+                        "accepted or not_applicable decision settles it")
     c.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
                    help="extra rule file or folder (may be given more than once)")
     c.add_argument("--no-passed", action="store_true", help="leave passed checks out (text)")
@@ -39,19 +43,43 @@ def run(args: argparse.Namespace) -> int:
         from reviewer.report import json as view
 
         text = view.render(reviews)
+    elif args.format == "sarif":
+        from reviewer.report import sarif as view
+
+        text = view.render(reviews)
     elif args.format == "markdown":
         from reviewer.report import markdown as view
 
-        text = view.render(reviews)
+        pictures = {}
+        if args.output is not None and not args.no_pictures:
+            pictures = _pictures(reviews, args.output)
+        text = view.render(reviews, pictures=pictures)
     else:
         from reviewer.report import text as view
 
         text = view.render(reviews, color=use_color(args.color) and args.output is None,
                            show_passed=not args.no_passed)
     emit(text, args.output)
-    if args.fail_on:
-        worst = LEVELS.index(args.fail_on)
-        for r in reviews:
-            if any(LEVELS.index(f.severity) <= worst for f in r.failures):
-                return 1
+    if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews):
+        return 1
     return 0
+
+
+def _pictures(reviews, output: Path) -> dict:
+    """Write each review's pictures beside ``output``; {review path: [(caption, link)]}."""
+    import sys
+
+    from reviewer.report import pictures
+
+    out = {}
+    for r in reviews:
+        stem = output.stem if len(reviews) == 1 else f"{output.stem}.{Path(r.path).stem}"
+        try:
+            made = pictures.write_pictures(r, output.parent, stem)
+        except pictures.PicturesUnavailable as e:
+            print(f"note: pictures left out: {e}", file=sys.stderr)
+            return {}
+        for _, name in made:
+            print(f"wrote {output.parent / name}", file=sys.stderr)
+        out[r.path] = made
+    return out

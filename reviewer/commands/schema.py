@@ -6,12 +6,20 @@ import argparse
 
 
 def register(sub) -> None:
-    sub.add_parser("schema", help="print the JSON Schema of the design file format")
+    s = sub.add_parser("schema", help="print the JSON Schema of the design file format")
+    s.add_argument("--of", choices=("design", "review"), default="design",
+                   help="design: the design file format; review: the JSON report (check "
+                        "--format json)")
 
 
 def run(args: argparse.Namespace) -> int:
     import json
 
+    if getattr(args, "of", "design") == "review":
+        from reviewer.report.json import schema
+
+        print(json.dumps(schema(), indent=2, ensure_ascii=False))
+        return 0
     from reviewer.design.schema import design_schema
 
     print(json.dumps(design_schema(), indent=2, ensure_ascii=False))

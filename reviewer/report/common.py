@@ -68,3 +68,62 @@ def pass_text(f: Finding) -> str:
 
 def needs(f: Finding) -> str:
     return ", ".join(f.needs)
+
+
+# decisions --------------------------------------------------------------------------------------
+KIND_LABEL = {
+    "undecided": "undecided",
+    "will_change": "will change the design",
+    "accepted": "accepted",
+    "not_applicable": "not applicable",
+}
+STATE_LABEL = {
+    "current": "current",
+    "reconfirm": "awaiting re-confirmation: the numbers have moved",
+    "resolved": "resolved by the revision",
+    "orphan": "orphan: no such finding any more",
+}
+
+
+def decision(d, state: str | None = None) -> str:
+    """'accepted (ana, 2026-12-01): reason [current]': one line for a decision."""
+    text = KIND_LABEL.get(d.kind, d.kind)
+    who = ", ".join(x for x in (d.reviewer, d.at[:10]) if x)
+    if who:
+        text += f" ({who})"
+    if d.reason:
+        text += f": {d.reason}"
+    if state:
+        text += f" [{STATE_LABEL.get(state, state)}]"
+    return text
+
+
+def decided_on(d) -> str:
+    """The numbers a decision was made on: '24 V ≤ 20 V (fail)'."""
+    parts = []
+    if d.value is not None:
+        parts.append(num(d.value, d.unit))
+    if d.limit is not None:
+        parts.append(f"limit {num(d.limit, d.unit)}")
+    text = ", ".join(parts)
+    if d.outcome:
+        text += f" ({d.outcome})" if text else d.outcome
+    return text
+
+
+def now_on(f) -> str:
+    """The same numbers for the current finding, for side-by-side display."""
+    parts = []
+    if f.value is not None:
+        parts.append(num(f.value, f.unit))
+    if f.limit is not None:
+        parts.append(f"limit {num(f.limit, f.unit)}")
+    text = ", ".join(parts)
+    return f"{text} ({f.outcome})" if text else f.outcome
+
+
+def record_rows(r) -> list[tuple[str, object, object, str]]:
+    """Every decision of the review's record with its finding and state, ordered by state."""
+    order = {"reconfirm": 0, "current": 1, "resolved": 2, "orphan": 3}
+    rows = [(k, d, r.finding(k), r.state(k)) for k, d in sorted(r.record.decisions.items())]
+    return sorted(rows, key=lambda row: (order.get(row[3], 9), row[0]))

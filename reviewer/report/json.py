@@ -1,4 +1,17 @@
-"""The review as JSON, in a documented, versioned shape (see :data:`SCHEMA_ID`)."""
+"""The review as JSON, in a documented, versioned shape.
+
+The shape is described by the JSON Schema ``review.schema.json`` beside this module
+(``reviewer schema --of review`` prints it). ``format`` is always ``"bridge-reviewer/review"``;
+``version`` changes only when a field is removed or changes meaning (fields may be added within
+a version). One review is one object; several reviews are an array of such objects.
+
+Top level: ``design`` (file and identity), ``beyond_extra_low_voltage`` and ``caution``,
+``summary`` (failing findings by severity, other outcomes by name), ``findings`` (each with its
+numbers, text, source, ``decision`` and ``settled``), ``record`` (every decision with its state,
+answers, proposals; orphans included), ``sheet`` (every computed quantity) and ``missing``
+(quantities not computed, with the fields that would let them be). Numbers are SI, in the
+``unit`` given beside them; infinities are the strings ``"inf"`` and ``"-inf"``.
+"""
 
 from __future__ import annotations
 
@@ -13,6 +26,14 @@ FORMAT = "bridge-reviewer/review"
 VERSION = 1
 
 
+def schema() -> dict[str, Any]:
+    """The JSON Schema (draft 2020-12) of :func:`to_data`'s output."""
+    from importlib.resources import files
+
+    return json.loads(files("reviewer.report").joinpath("review.schema.json")
+                      .read_text(encoding="utf-8"))
+
+
 def _clean(x: Any) -> Any:
     if isinstance(x, float) and (math.isnan(x) or math.isinf(x)):
         return None if math.isnan(x) else ("inf" if x > 0 else "-inf")
@@ -23,6 +44,13 @@ def _clean(x: Any) -> Any:
     return x
 
 
+def _decision(r: Review, d: Any) -> dict[str, Any]:
+    return {"key": d.key, "kind": d.kind, "reason": d.reason, "reviewer": d.reviewer, "at": d.at,
+            "state": r.state(d.key),
+            "decided_on": {"outcome": d.outcome or None, "value": d.value, "limit": d.limit,
+                           "unit": d.unit}}
+
+
 def to_data(r: Review) -> dict[str, Any]:
     d = r.design.design
     findings = []
@@ -30,12 +58,27 @@ def to_data(r: Review) -> dict[str, Any]:
         item = asdict(f)
         item["key"] = f.key
         item["corner"] = [{"field": p, "at": end} for p, end in f.corner]
+        item["needs"] = list(f.needs)
+        item["fields"] = list(f.fields)
+        item["assumptions"] = list(f.assumptions)
+        dec = r.decision(f.key)
+        item["decision"] = None if dec is None else _decision(r, dec)
+        item["settled"] = f.outcome == "fail" and r.settled(f)
         findings.append(item)
     sheet = [
-        {"name": q.name, "unit": q.unit, "label": q.label, "typ": q.typ, "min": q.lo, "max": q.hi,
-         "origin": q.origin, "note": q.note}
+        {"name": q.name, "unit": q.unit, "label": q.label, "kind": q.kind, "typ": q.typ,
+         "min": q.lo, "max": q.hi, "origin": q.origin, "note": q.note}
         for q in sorted(r.sheet.quantities.values(), key=lambda q: q.name)
     ]
+    rec = r.record
+    record = {
+        "decisions": [_decision(r, x) for _, x in sorted(rec.decisions.items())],
+        "orphans": [x.key for x in r.orphans],
+        "answers": [{"question": a.question, "answer": a.answer, "note": a.note,
+                     "reviewer": a.reviewer, "at": a.at} for _, a in sorted(rec.answers.items())],
+        "proposals": [{"field": p.field, "value": p.value, "note": p.note,
+                       "reviewer": p.reviewer, "at": p.at} for _, p in sorted(rec.proposals.items())],
+    }
     return _clean({
         "format": FORMAT,
         "version": VERSION,
@@ -45,6 +88,7 @@ def to_data(r: Review) -> dict[str, Any]:
         "caution": CAUTION if r.beyond_elv else None,
         "summary": r.counts(),
         "findings": findings,
+        "record": record,
         "sheet": sheet,
         "missing": [{"name": m.name, "needs": list(m.needs)} for m in r.sheet.missing.values()
                     if not m.name.startswith("design.")],

@@ -19,7 +19,7 @@ def render(reviews: list[Review], color: bool | None = None, width: int | None =
 
     buf = StringIO()
     console = Console(file=buf, force_terminal=bool(color), no_color=not color,
-                      width=width or 100, highlight=False, soft_wrap=False)
+                      width=width or 100, highlight=False, soft_wrap=False, markup=False)
     for i, r in enumerate(reviews):
         if i:
             console.rule()
@@ -58,6 +58,8 @@ def _one(console, r: Review, show_passed: bool) -> None:
         title.append(f"{common.label(f):<7}", style=STYLE[f.severity])
         title.append(f" {f.key}", style="bold")
         title.append(f"  {f.title}")
+        if r.settled(f):
+            title.append("  (settled by decision)", style="dim")
         console.print(title)
         grid = Table.grid(padding=(0, 2))
         grid.add_column(style="dim", no_wrap=True)
@@ -80,19 +82,29 @@ def _one(console, r: Review, show_passed: bool) -> None:
         for a in f.assumptions:
             grid.add_row("assumes", a)
         grid.add_row("source", f"{f.reference} [{common.basis(f)}]")
+        d = r.decision(f.key)
+        if d is not None:
+            st = r.state(f.key)
+            grid.add_row("decision", common.decision(d, st))
+            if st == "reconfirm":
+                grid.add_row("decided on", common.decided_on(d))
+                grid.add_row("now", common.now_on(f))
+        else:
+            grid.add_row("decision", "none recorded")
         console.print(Padding(grid, (0, 0, 1, 2), expand=False))
 
+    _record(console, r)
     missing = r.by_outcome("needs_data")
     if missing:
         console.print(Text("Needs data (not checked)", style="bold magenta"))
         for f in missing:
-            console.print(f"  {f.key}: {f.title} — give {common.needs(f)}")
+            console.print(Text(f"  {f.key}: {f.title} — give {common.needs(f)}"))
         console.print()
     questions = r.by_outcome("open")
     if questions:
         console.print(Text("Open questions (answer in [checklist])", style="bold blue"))
         for f in questions:
-            console.print(f"  {f.rule_id}: {f.question or f.title}")
+            console.print(Text(f"  {f.rule_id}: {f.question or f.title}"))
         console.print()
     passed = r.by_outcome("pass") + r.by_outcome("answered")
     if show_passed and passed:
@@ -105,3 +117,23 @@ def _one(console, r: Review, show_passed: bool) -> None:
         console.print(Padding(table, (0, 0, 0, 2), expand=False))
         console.print()
     console.print(Text(AID_NOTE, style="dim"))
+
+
+def _record(console, r: Review) -> None:
+    """Decisions that are not on a failing finding shown above: resolved, orphaned, others."""
+    from rich.text import Text
+
+    failing = {f.key for f in r.failures}
+    rows = [row for row in common.record_rows(r) if row[0] not in failing]
+    if not rows:
+        return
+    console.print(Text("Other decisions in the record", style="bold"))
+    for key, d, f, st in rows:
+        console.print(Text(f"  {key}: {common.decision(d, st)}"))
+        if st in ("reconfirm", "resolved"):
+            console.print(Text(f"      decided on {common.decided_on(d)}; now {common.now_on(f)}",
+                               style="dim"))
+        elif st == "orphan":
+            console.print(Text(f"      decided on {common.decided_on(d)}; kept in the record",
+                               style="dim"))
+    console.print()
