@@ -135,3 +135,22 @@ def test_min_pulse_threshold(scale, outcome):
 ])
 def test_example_designs(name, expected):
     assert_fails(review_file(name), expected, area="timing")
+
+
+def test_push_pull_stage_current_limited_and_with_a_gate_resistor():
+    # Current-limited 0.5 A both ways, no resistance: t = Q/I (MU&R §22-4):
+    # t_d(on) = 2 nF·3 V/0.5 A = 12 ns; off = (2 nF·7 V + 10 nC + 2 nF·2 V)/0.5 A = 56 ns.
+    pp = [("drive.low", "kind", '"push_pull"'), ("drive.high", "kind", '"push_pull"')]
+    for side in ("high", "low"):
+        pp += [(f"drive.{side}", "r_source", None), (f"drive.{side}", "r_sink", None),
+               (f"drive.{side}", "r_gate", '"0 Ω"'),
+               (f"drive.{side}", "source_current", '"0.5 A"'), (f"drive.{side}", "sink_current", '"0.5 A"')]
+    f = finding(review_text(bridge(*pp)), "timing.dead-time-margin[low]")
+    assert f.limit == pytest.approx(1.5 * (56e-9 - 12e-9))
+    # With an 8 Ω gate resistor as well, each interval is the slower of RC and Q/I:
+    # t_d(on) = max(16 ns·ln(12/9), 12 ns) = 12 ns; t_d(off) = max(16 ns·ln(12/5), 28 ns) = 28 ns;
+    # t_f = max(10 nC·8 Ω/5 V, 20 ns) = 20 ns; tail = max(16 ns·ln(5/3), 8 ns) = 8.17 ns.
+    rg = [(f"drive.{s}", "r_gate", '"8 Ω"') for s in ("high", "low")]
+    f = finding(review_text(bridge(*pp, *rg)), "timing.dead-time-margin[low]")
+    tail = 16e-9 * math.log(5 / 3)
+    assert f.limit == pytest.approx(1.5 * (28e-9 + 20e-9 + tail - 12e-9))
