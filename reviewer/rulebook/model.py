@@ -97,11 +97,93 @@ class Rule(BaseModel):
         return "≤" if self.at_most is not None else ("≥" if self.at_least is not None else "")
 
 
+PROFILE = re.compile(r"^[a-z][a-z0-9-]*$")
+
+
+class Override(BaseModel):
+    """A change to a rule defined earlier (built-in or in another file), by id.
+
+    Only what is given changes; ``params`` are merged into the rule's own.
+    """
+
+    model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True)
+
+    id: str = Field(description="The id of the rule to change.")
+    severity: Literal["hazard", "risk", "advice"] | None = None
+    at_most: str | float | None = Field(None, description="New limit (the rule must be an at_most rule).")
+    at_least: str | float | None = Field(None, description="New limit (the rule must be an at_least rule).")
+    params: dict[str, str | float] = Field(default_factory=dict)
+    applies: str | None = Field(None, description="New condition under which the rule applies.")
+    title: str | None = None
+    why: str | None = None
+    mitigation: str | None = None
+    reference: str | None = None
+    basis: Literal["standard", "book", "library", "practice", "memory"] | None = None
+    pass_: PassValue | None = Field(None, alias="pass")
+    note: str = Field("", description="Why the house changes it; shown by 'reviewer rules'.")
+
+    def changes(self) -> dict[str, object]:
+        """The keys this override sets, as a rule's keys (pass under its alias)."""
+        out: dict[str, object] = {}
+        for key in ("severity", "at_most", "at_least", "applies", "title", "why", "mitigation",
+                    "reference", "basis"):
+            value = getattr(self, key)
+            if value is not None:
+                out[key] = value
+        if self.pass_ is not None:
+            out["pass"] = self.pass_.model_dump()
+        if self.params:
+            out["params"] = dict(self.params)
+        return out
+
+
+class Disable(BaseModel):
+    """Switch a rule off. The reason is required: every report shows it."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+    id: str
+    reason: str = Field(description="Why this rule does not apply to the house's designs.")
+
+    @field_validator("reason")
+    @classmethod
+    def _reason(cls, v: str) -> str:
+        if not v.strip():
+            raise ValueError("a rule is switched off only with a reason; give reason = \"...\"")
+        return " ".join(v.split())
+
+
 class RuleFile(BaseModel):
+    """One rule file: built-in or a house file. A house file may also change and switch off
+    rules defined before it, and may belong to a named profile that extends another."""
+
     model_config = ConfigDict(extra="forbid", frozen=True)
     area: str = ""
     description: str = ""
+    profile: str | None = Field(None, description="The profile this file belongs to; none: "
+                                "the default profile, always applied.")
+    extends: str | None = Field(None, description="The profile this one builds on "
+                                "(default: 'default').")
     rule: list[Rule] = Field(default_factory=list)
+    override: list[Override] = Field(default_factory=list)
+    disable: list[Disable] = Field(default_factory=list)
+
+    @field_validator("profile", "extends")
+    @classmethod
+    def _profile(cls, v: str | None) -> str | None:
+        if v is not None and not PROFILE.match(v):
+            raise ValueError(f"a profile name is a lower-case word like 'strict', found {v!r}")
+        return v
+
+    @model_validator(mode="after")
+    def _extends(self) -> "RuleFile":
+        if self.extends is not None and self.profile is None:
+            raise ValueError("'extends' goes with 'profile' (the profile that extends another)")
+        if self.profile == "default" and self.extends not in (None,):
+            raise ValueError("the default profile extends nothing")
+        if self.profile is not None and self.profile == self.extends:
+            raise ValueError(f"profile {self.profile!r} cannot extend itself")
+        return self
 
 
-__all__ = ["Rule", "RuleFile", "PassValue", "SEVERITIES", "BASES"]
+__all__ = ["Rule", "RuleFile", "PassValue", "Override", "Disable", "SEVERITIES", "BASES"]
