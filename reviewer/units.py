@@ -71,7 +71,13 @@ def expected_text(unit: str) -> str:
     u = UNITS[unit]
     if unit in ("", "%"):
         return "a plain number or a percentage (e.g. 0.8 or 80 %)"
-    return f"a value in {u.name}s ({unit}), e.g. '4.7k{unit}' or a bare number in {unit}"
+    example = EXAMPLES.get(unit, f"1 {unit}")
+    return f"a value in {u.name}s ({unit}), e.g. '{example}', or a bare number in {unit}"
+
+
+EXAMPLES = {"V": "12 V", "A": "10 A", "Ω": "4.7 kΩ", "F": "100 nF", "H": "22 µH", "s": "250 ns",
+            "Hz": "20 kHz", "W": "50 W", "C": "40 nC", "S": "50 S", "m": "2.5 mm", "m²": "4 mm²",
+            "°C": "125 °C", "K/W": "1.5 K/W", "rad": "23 °"}
 
 
 def parse_number(text: str | float | int, unit: str) -> float:

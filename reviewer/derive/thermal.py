@@ -16,6 +16,8 @@ TJ_MARGIN = 25.0
 """Margin below T_j,max the heatsink figure is solved for [°C]; the rule's default margin."""
 
 FUNDAMENTAL = "from the load current's fundamental (harmonics not yet included)"
+HARMONICS = ("the fundamental's per-switch split, scaled to the bridge current's true RMS "
+             "from the harmonic spectrum (waveform.bridge_current_rms)")
 
 QUANTITIES = declare(
     ("thermal.load_angle", "rad", "Load current lag behind the bridge voltage's fundamental"),
@@ -64,9 +66,15 @@ def derive(ctx: Ctx) -> None:
             n = int(ctx.v(f"{sw}.count"))
             c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=min(index, 1.0))
             rms = c.high_rms if side == "high" else c.low_rms
+            basis = FUNDAMENTAL
+            if ctx.has("waveform.bridge_current_rms") and ctx.q("op.load_current_rms") > 0:
+                # harmonics add heating: scale the conduction current by the true RMS over the
+                # fundamental's (the split between switches follows the fundamental)
+                rms *= ctx.q("waveform.bridge_current_rms") / ctx.q("op.load_current_rms")
+                basis = HARMONICS
             i_dev = float(tp.device_current(rms, n))
             i_sw = float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha), n))
-            ctx.publish(f"thermal.{side}.device_rms", i_dev, FUNDAMENTAL)
+            ctx.publish(f"thermal.{side}.device_rms", i_dev, basis)
             ctx.publish(f"thermal.{side}.device_switched", i_sw, FUNDAMENTAL)
 
             rds, coss, vf = ctx.need(f"{sw}.rds_on", f"{sw}.coss", f"{sw}.diode_vf")
