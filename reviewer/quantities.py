@@ -127,14 +127,19 @@ class Ctx:
         self.missing: dict[str, tuple[str, ...]] = {}
         self.notes: dict[str, str] = {}
         self.series: dict[str, Any] = {}
+        self.reads: list[tuple[str, str, Any]] = []
+        """What the running module read, in order: replaying a module whose reads are the same
+        as a run before gives the same results (derive code is deterministic)."""
 
     # reading the design -------------------------------------------------------------------
     def v(self, path: str) -> Any:
         """The value of design field ``path`` at this corner (a float for quantities), or None."""
         try:
-            return self._values[path]
+            value = self._values[path]
         except KeyError:
             raise KeyError(f"no design field {path!r}") from None
+        self.reads.append(("v", path, value))
+        return value
 
     def need(self, *paths: str) -> Any:
         """Like :meth:`v` for each path, raising :class:`NeedsData` naming every absent one."""
@@ -146,6 +151,7 @@ class Ctx:
 
     def q(self, name: str) -> Any:
         """A value published earlier in this run; :class:`NeedsData` if it could not be computed."""
+        self.reads.append(("q", name, self.peek("q", name)))
         if name in self.out:
             return self.out[name]
         if name in self.missing:
@@ -153,7 +159,18 @@ class Ctx:
         raise KeyError(f"{name!r} is not published (yet): check the derive order")
 
     def has(self, name: str) -> bool:
+        self.reads.append(("h", name, name in self.out))
         return name in self.out
+
+    def peek(self, kind: str, name: str) -> Any:
+        """What a read of ``kind`` ("v", "q", "h") would see now, without recording it."""
+        if kind == "v":
+            return self._values[name]
+        if kind == "h":
+            return name in self.out
+        if name in self.out:
+            return ("value", self.out[name])
+        return ("missing", self.missing.get(name))
 
     # publishing ---------------------------------------------------------------------------
     def publish(self, name: str, value: Any, note: str = "") -> None:
@@ -276,11 +293,14 @@ def catalogue() -> dict[str, Declared]:
     return out
 
 
-def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None) -> Sheet:
+def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None,
+            replay: bool = True) -> Sheet:
     """Run every derive module over the design's tolerance corners and return the sheet.
 
     ``focus`` names the quantities whose extremes matter (those the rules judge); the third
-    pass makes corner runs for these only. None: every published number.
+    pass makes corner runs for these only. None: every published number. With ``replay``, a
+    module whose reads in a run equal those of an earlier run is not run again: its earlier
+    results are reused (the same inputs give the same outputs).
     """
     from reviewer.derive import MODULES
 
@@ -288,13 +308,29 @@ def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] |
     base, spans, units = design_values(design)
     tol = [p for p, s in spans.items() if not s.exact]
 
+    replays: list[list[_Replay]] = [[] for _ in MODULES]
+
     def run(assign: dict[str, str]) -> Ctx:
         values = dict(base)
         for p, end in assign.items():
             values[p] = spans[p].lo if end == "min" else spans[p].hi
         ctx = Ctx(design, values, cat, typical=not assign)
-        for module in MODULES:
+        for module, seen in zip(MODULES, replays):
+            hit = next((r for r in seen if r.matches(ctx)), None) if replay else None
+            if hit is not None:
+                ctx.out.update(hit.out)
+                ctx.missing.update(hit.missing)
+                ctx.notes.update(hit.notes)
+                continue
+            ctx.reads = []
+            out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
             module.derive(ctx)
+            seen.append(_Replay(
+                tuple(ctx.reads),
+                {k: v for k, v in ctx.out.items() if k not in out0},
+                {k: v for k, v in ctx.missing.items() if k not in missing0},
+                {k: v for k, v in ctx.notes.items() if k not in notes0},
+            ))
         return ctx
 
     assigns: list[dict[str, str]] = [{}]
@@ -348,6 +384,26 @@ def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] |
             missing[f"design.{path}"] = Missing(f"design.{path}", (path,))
     corners = tuple(tuple(sorted(a.items())) for a in assigns)
     return Sheet(quantities, missing, corners, ctxs[0].series)
+
+
+@dataclass(frozen=True)
+class _Replay:
+    """One module's results in an earlier run, and everything it read to get them."""
+
+    reads: tuple[tuple[str, str, Any], ...]
+    out: dict[str, Any]
+    missing: dict[str, tuple[str, ...]]
+    notes: dict[str, str]
+
+    def matches(self, ctx: Ctx) -> bool:
+        return all(_same(ctx.peek(kind, name), value) for kind, name, value in self.reads)
+
+
+def _same(a: Any, b: Any) -> bool:
+    try:
+        return bool(a == b)
+    except (TypeError, ValueError):  # values that do not compare plainly: never replay
+        return False
 
 
 def _is_number(v: Any) -> bool:
