@@ -1,0 +1,392 @@
+"""The walkthrough's state and what it does, kept apart from the screen so it can be tested alone.
+
+A :class:`Walk` holds the design path, the rule book, the review record and the latest
+:class:`Snapshot` (the design reviewed as filed, and with the record's proposals applied). Every
+change to the record goes through :mod:`reviewer.record` and is saved atomically before the
+method returns, so a terminal that dies loses nothing. Nothing here imports Textual.
+"""
+
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+
+from reviewer import record as rec
+from reviewer.errors import InputError, Problem
+from reviewer.findings import SEVERITIES, Finding
+from reviewer.review import Review, answers_of
+
+NEEDS_ATTENTION = ("fail", "open", "needs_data")
+PASSED = ("pass", "answered", "not_applicable")
+_GROUP = {"fail": 0, "open": 1, "needs_data": 2, "pass": 3, "answered": 3, "not_applicable": 4}
+
+
+@dataclass(frozen=True)
+class Snapshot:
+    """One review of the design: as filed, and as the record's proposals would make it.
+
+    ``problems`` is set (and both reviews are None) when the design file cannot be loaded;
+    ``proposal_problems`` when it loads but a proposal does not validate (``current`` is then
+    the filed review).
+    """
+
+    filed: Review | None = None
+    current: Review | None = None
+    problems: tuple[Problem, ...] = ()
+    proposal_problems: tuple[Problem, ...] = ()
+    mtime: float | None = None
+
+    @property
+    def ok(self) -> bool:
+        return self.current is not None
+
+
+@dataclass(frozen=True)
+class Item:
+    """One line of the walkthrough: a finding key, with the finding as filed and with proposals."""
+
+    key: str
+    current: Finding | None
+    filed: Finding | None
+
+    @property
+    def finding(self) -> Finding:
+        f = self.current or self.filed
+        assert f is not None
+        return f
+
+    @property
+    def area(self) -> str:
+        return self.finding.area
+
+    @property
+    def outcome(self) -> str:
+        return self.finding.outcome
+
+    @property
+    def changed(self) -> bool:
+        """True when the proposals change this finding's outcome."""
+        return (self.filed is None or self.current is None
+                or self.filed.outcome != self.current.outcome)
+
+    @property
+    def is_question(self) -> bool:
+        return bool(self.finding.question)
+
+    def sort_key(self) -> tuple:
+        f = self.finding
+        return (_GROUP.get(f.outcome, 5), SEVERITIES.index(f.severity) if f.severity in SEVERITIES
+                else 9, f.rule_id, f.subject)
+
+
+def compute(path: str | Path, book, record: rec.Record,
+            cache: dict | None = None) -> Snapshot:
+    """Review the design at ``path`` as filed and with ``record``'s proposals (the heavy part).
+
+    ``cache`` (a dict kept by the caller) holds the reviews already made, keyed by the file's
+    modification time, its text and the proposals, so that a what-if change reviews only the
+    changed design and a new answer only judges the rules again.
+    """
+    from reviewer.whatif import proposals_of
+
+    p = Path(path)
+    try:
+        mtime = p.stat().st_mtime
+        text = p.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        return Snapshot(problems=(Problem(str(p), None, "", "no such file"),))
+    except (OSError, UnicodeDecodeError) as e:
+        return Snapshot(problems=(Problem(str(p), None, "", f"cannot be read: {e}"),))
+    cache = {} if cache is None else cache
+    try:
+        filed = _reviewed(cache, text, str(p), book, record, {})
+    except InputError as e:
+        return Snapshot(problems=tuple(e.problems), mtime=mtime)
+    proposals = proposals_of(record)
+    if not proposals:
+        return Snapshot(filed, filed, mtime=mtime)
+    try:
+        current = _reviewed(cache, text, str(p), book, record, proposals)
+    except InputError as e:
+        return Snapshot(filed, filed, proposal_problems=tuple(e.problems), mtime=mtime)
+    return Snapshot(filed, current, mtime=mtime)
+
+
+def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
+              proposals: dict[str, str]) -> Review:
+    """The review of ``text`` with ``proposals``: from the cache when the inputs are the same."""
+    from reviewer.engine import evaluate
+    from reviewer.review import review_design
+    from reviewer.whatif import apply_to_text
+
+    key = (name, text, tuple(sorted(proposals.items())))
+    answers_key = tuple(sorted((k, (a.answer, a.note)) for k, a in record.answers.items()))
+    hit = cache.get(key)
+    if hit is None:
+        design = apply_to_text(text, name, proposals)
+        review = review_design(design, name, book, record)
+        if len(cache) > 16:
+            cache.clear()
+        cache[key] = (review, answers_key)
+        return review
+    review, seen = hit
+    if seen != answers_key:
+        findings = evaluate(book, review.sheet, answers_of(review.design, record))
+        review = Review(review.path, review.design, review.sheet, tuple(findings), record)
+        cache[key] = (review, answers_key)
+    return replace(review, record=record)
+
+
+@dataclass
+class Walk:
+    """The walkthrough of one design: its record, its latest snapshot, and the actions on them."""
+
+    path: Path
+    book: object
+    reviewer: str = ""
+    record: rec.Record = field(default_factory=rec.Record)
+    snapshot: Snapshot = field(default_factory=Snapshot)
+    show_passed: bool = False
+    record_mtime: float | None = None
+    cache: dict = field(default_factory=dict)
+
+    @classmethod
+    def open(cls, path: str | Path, rule_files: list[Path] | None = None,
+             reviewer: str | None = None) -> "Walk":
+        """Load the rule book and the record (fast); the review itself is :meth:`refresh`."""
+        from reviewer.rulebook import load_rulebook
+
+        p = Path(path)
+        walk = cls(p, load_rulebook(rule_files), reviewer if reviewer is not None else
+                   os.environ.get("USER", ""))
+        walk.record = walk._read_record()
+        return walk
+
+    # files --------------------------------------------------------------------------------
+    @property
+    def record_file(self) -> Path:
+        return rec.record_path(self.path)
+
+    def _read_record(self) -> rec.Record:
+        try:
+            self.record_mtime = self.record_file.stat().st_mtime
+        except OSError:
+            self.record_mtime = None
+        return rec.load(self.record_file, self.path.name)
+
+    def _save(self, record: rec.Record) -> None:
+        rec.save(record, self.record_file)
+        self.record = record
+        self.record_mtime = self.record_file.stat().st_mtime
+
+    def design_mtime(self) -> float | None:
+        try:
+            return self.path.stat().st_mtime
+        except OSError:
+            return None
+
+    def changed_on_disk(self) -> tuple[bool, bool]:
+        """(design changed, record changed by someone else) since they were last read."""
+        design = self.design_mtime() != self.snapshot.mtime
+        try:
+            rm: float | None = self.record_file.stat().st_mtime
+        except OSError:
+            rm = None
+        return design, rm != self.record_mtime
+
+    def reload_record(self) -> None:
+        self.record = self._read_record()
+
+    # reviewing ----------------------------------------------------------------------------
+    def refresh(self) -> Snapshot:
+        """Review the design again from its file (the heavy step: run it in a worker)."""
+        return compute(self.path, self.book, self.record, self.cache)
+
+    def install(self, snap: Snapshot) -> None:
+        self.snapshot = snap
+
+    @property
+    def review(self) -> Review | None:
+        return self.snapshot.current
+
+    # the list -----------------------------------------------------------------------------
+    def items(self) -> list[Item]:
+        """Every finding to show, grouped by area (worst area first) and ordered by severity."""
+        s = self.snapshot
+        if not s.ok:
+            return []
+        cur = {f.key: f for f in s.current.findings}
+        filed = {f.key: f for f in s.filed.findings}
+        keys = list(dict.fromkeys([*cur, *filed]))
+        items = [Item(k, cur.get(k), filed.get(k)) for k in keys]
+        shown = [i for i in items if self.show_passed
+                 or (i.current and i.current.outcome in NEEDS_ATTENTION)
+                 or (i.filed and i.filed.outcome in NEEDS_ATTENTION)]
+        areas: dict[str, list[Item]] = {}
+        for i in sorted(shown, key=Item.sort_key):
+            areas.setdefault(i.area, []).append(i)
+        order = sorted(areas, key=lambda a: (areas[a][0].sort_key()[:2], a))
+        return [i for a in order for i in areas[a]]
+
+    def decision(self, key: str) -> rec.Decision | None:
+        return self.record.decisions.get(key)
+
+    def decision_state(self, item: Item) -> str | None:
+        d = self.record.decisions.get(item.key)
+        if d is None:
+            return None
+        return rec.state(d, item.filed if item.filed is not None else item.current)
+
+    def answer_of(self, item: Item) -> tuple[str, str] | None:
+        r = self.review
+        if r is None or not item.is_question:
+            return None
+        return answers_of(r.design, self.record).get(item.finding.rule_id)
+
+    def needs_decision(self, item: Item) -> bool:
+        """A failing finding with no decision (or one to re-confirm), or an open question."""
+        if item.outcome == "open":
+            return True
+        failing = item.outcome == "fail" or (item.filed is not None and item.filed.outcome == "fail")
+        if not failing:
+            return False
+        d = self.record.decisions.get(item.key)
+        return d is None or d.kind == "undecided" or self.decision_state(item) == "reconfirm"
+
+    def next_undecided(self, after: str | None) -> str | None:
+        """The key of the next item needing a decision after ``after``, wrapping round."""
+        items = self.items()
+        keys = [i.key for i in items]
+        start = keys.index(after) + 1 if after in keys else 0
+        for i in items[start:] + items[:start]:
+            if self.needs_decision(i):
+                return i.key
+        return None
+
+    def item(self, key: str | None) -> Item | None:
+        return next((i for i in self.items() if i.key == key), None)
+
+    # the state at a glance ----------------------------------------------------------------
+    def tally(self) -> dict[str, int]:
+        """Counts for the status line (of the review with proposals applied)."""
+        r = self.review
+        if r is None:
+            return {}
+        c = r.counts()
+        items = self.items()
+        failing = [i for i in items if i.outcome == "fail"
+                   or (i.filed is not None and i.filed.outcome == "fail")]
+        decided = [i for i in failing if not self.needs_decision(i)]
+        return {
+            "hazard": c.get("hazard", 0), "risk": c.get("risk", 0), "advice": c.get("advice", 0),
+            "open": c.get("open", 0), "needs_data": c.get("needs_data", 0),
+            "passed": c.get("pass", 0) + c.get("answered", 0),
+            "failing": len(failing), "decided": len(decided),
+            "reconfirm": sum(1 for i in failing if self.decision_state(i) == "reconfirm"),
+            "proposals": len(self.record.proposals),
+            "orphans": len(r.orphans),
+        }
+
+    # recording ----------------------------------------------------------------------------
+    def _finding_for_record(self, key: str) -> Finding:
+        s = self.snapshot
+        for r in (s.filed, s.current):
+            f = r.finding(key) if r is not None else None
+            if f is not None:
+                return f
+        raise KeyError(key)
+
+    def decide(self, key: str, kind: str, reason: str = "") -> None:
+        """Record a decision on the finding as filed (the numbers it is made on), and save."""
+        record = rec.decide(self.record, self._finding_for_record(key), kind, reason,
+                            self.reviewer)
+        self._save(record)
+        self.snapshot = _restamp(self.snapshot, record)
+
+    def note(self, key: str, text: str) -> None:
+        self._save(rec.note(self.record, key, text, self.reviewer))
+        self.snapshot = _restamp(self.snapshot, self.record)
+
+    def answer(self, question: str, value: str, note_text: str = "") -> None:
+        """Answer a checklist question (by rule id) and save; then :meth:`refresh` (the rules
+        are judged again, the sheets reused)."""
+        self._save(rec.answer(self.record, question, value, note_text, self.reviewer))
+        self.snapshot = _restamp(self.snapshot, self.record)
+
+    def check_proposal(self, field_path: str, value: str) -> list[Problem]:
+        """The problems the proposal would cause (none when it validates); nothing is saved."""
+        from reviewer.whatif import apply_to_text, proposals_of
+
+        try:
+            text = self.path.read_text(encoding="utf-8")
+            apply_to_text(text, str(self.path), {**proposals_of(self.record),
+                                                 field_path.strip(): value})
+        except InputError as e:
+            return list(e.problems)
+        except OSError as e:
+            return [Problem(str(self.path), None, "", f"cannot be read: {e}")]
+        return []
+
+    def propose(self, field_path: str, value: str, note_text: str = "") -> None:
+        """Store a what-if change in the record (the design file is never rewritten)."""
+        self._save(rec.propose(self.record, field_path.strip(), value.strip(), note_text,
+                               self.reviewer))
+
+    def withdraw(self, field_path: str) -> None:
+        self._save(rec.withdraw(self.record, field_path))
+
+    def field_value(self, field_path: str) -> str:
+        """The design's current value of a field, as text, to prefill a what-if."""
+        p = self.record.proposals.get(field_path)
+        if p is not None:
+            return p.value
+        r = self.snapshot.filed
+        if r is None:
+            return ""
+        q = r.sheet.get(f"design.{field_path}")
+        if q is None:
+            return ""
+        if q.kind == "number":
+            from reviewer.report.common import num
+
+            return num(q.typ, q.unit)
+        return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
+
+    def design_fields(self) -> list[str]:
+        """Every design field a what-if may change (from the sheet), for completion."""
+        r = self.snapshot.filed
+        if r is None:
+            return []
+        names = {n.removeprefix("design.") for n in (*r.sheet.quantities, *r.sheet.missing)
+                 if n.startswith("design.")}
+        return sorted(n for n in names if not n.startswith(("design.", "checklist.")))
+
+    def export(self, target: str | Path) -> Path:
+        """Write the Markdown report of the review as shown; never over the design file."""
+        from reviewer.tui.export import markdown_report
+
+        t = Path(target)
+        if t.resolve() == self.path.resolve() or t.resolve() == self.record_file.resolve():
+            raise InputError([Problem(str(t), None, "", "is the design or its record; "
+                                      "choose another file for the report")])
+        s = self.snapshot
+        if not s.ok:
+            raise InputError(list(s.problems))
+        from reviewer.atomic import write_text
+
+        write_text(t, markdown_report(s.current, s.filed))
+        return t
+
+    def default_export(self) -> Path:
+        return self.path.with_name(self.path.stem + ".review.md")
+
+
+def _restamp(snap: Snapshot, record: rec.Record) -> Snapshot:
+    """The same findings with a new record (decisions do not change any finding)."""
+    def put(r: Review | None) -> Review | None:
+        return None if r is None else replace(r, record=record)
+
+    filed = put(snap.filed)
+    current = filed if snap.current is snap.filed else put(snap.current)
+    return replace(snap, filed=filed, current=current)
