@@ -11,7 +11,7 @@ from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
 from reviewer.quantities import Sheet, compute
-from reviewer.rulebook.loader import Rulebook, load_rulebook
+from reviewer.rulebook.loader import Disabled, Rulebook, load_rulebook
 
 CAUTION = (
     "This design is beyond extra-low voltage. Mains-level voltages and battery fault currents "
@@ -32,6 +32,8 @@ class Review:
     sheet: Sheet
     findings: tuple[Finding, ...]
     record: rec.Record = rec.Record()
+    disabled: tuple[Disabled, ...] = ()
+    """Rules switched off by house files, each with its reason: every view shows them."""
 
     def finding(self, key: str) -> Finding | None:
         return next((f for f in self.findings if f.key == key), None)
@@ -108,7 +110,7 @@ def review_design(design: Design, path: str, book: Rulebook,
     record = record or rec.Record(design=Path(path).name)
     sheet = compute(design, focus=judged_names(book))
     findings = evaluate(book, sheet, answers_of(design, record))
-    return Review(path, design, sheet, tuple(findings), record)
+    return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
 
 
 def review_file(path: str | Path, rule_files: list[Path] | None = None,

@@ -9,6 +9,28 @@ from pathlib import Path
 LEVELS = ("hazard", "risk", "advice")
 
 
+def add_rule_options(parser) -> None:
+    """The options that choose the rules a review applies (every reviewing command has them)."""
+    parser.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
+                        help="house rule file or folder, applied after the user and project "
+                             "house rules (may be given more than once; later wins)")
+    parser.add_argument("--profile", default="default", metavar="NAME",
+                        help="the rule profile to apply (default: default)")
+    parser.add_argument("--no-house-rules", action="store_true",
+                        help="ignore the user and project house-rules folders "
+                             "(--rules still applies)")
+
+
+def rulebook(args, design: Path | None, cache: dict | None = None):
+    """The rulebook for ``design`` under the command's rule options: built-in, the user's
+    house-rules folder, the project's house-rules folders, then ``--rules``."""
+    from reviewer.rulebook.discover import rulebook_for
+
+    return rulebook_for(design, list(getattr(args, "rules", []) or []),
+                        profile=getattr(args, "profile", "default") or "default",
+                        house=not getattr(args, "no_house_rules", False), _cache=cache)
+
+
 def rule_files(paths: list[Path]) -> list[Path]:
     from reviewer.errors import InputError, Problem
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from pathlib import Path
 
-from reviewer.commands._common import LEVELS, emit, rule_files, use_color
+from reviewer.commands._common import LEVELS, add_rule_options, emit, rulebook, use_color
 
 
 def register(sub) -> None:
@@ -19,8 +19,7 @@ def register(sub) -> None:
     c.add_argument("--fail-on", choices=LEVELS, default=None,
                    help="exit 1 when a finding at or above this severity fails and no current "
                         "accepted or not_applicable decision settles it")
-    c.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder (may be given more than once)")
+    add_rule_options(c)
     c.add_argument("--no-passed", action="store_true", help="leave passed checks out (text)")
     c.add_argument("--color", choices=("auto", "always", "never"), default="auto")
 
@@ -28,13 +27,11 @@ def register(sub) -> None:
 def run(args: argparse.Namespace) -> int:
     from reviewer.errors import InputError
     from reviewer.review import review_file
-    from reviewer.rulebook import load_rulebook
 
-    book = load_rulebook(rule_files(args.rules))
-    reviews, problems = [], []
+    reviews, problems, books = [], [], {}
     for path in args.designs:
         try:
-            reviews.append(review_file(path, book=book))
+            reviews.append(review_file(path, book=rulebook(args, path, books)))
         except InputError as e:
             problems.extend(e.problems)
     if problems:

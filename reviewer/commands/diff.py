@@ -16,22 +16,21 @@ def register(sub) -> None:
     d.add_argument("new", type=Path, metavar="NEW.toml")
     d.add_argument("--format", choices=("text", "markdown", "json"), default="text")
     d.add_argument("--output", "-o", type=Path, help="write to this file")
-    d.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder, as for check")
+    from reviewer.commands._common import add_rule_options
+
+    add_rule_options(d)
 
 
 def run(args: argparse.Namespace) -> int:
-    from reviewer.commands._common import emit, rule_files
+    from reviewer.commands._common import emit, rulebook
     from reviewer.errors import InputError
     from reviewer.report import diff
     from reviewer.review import review_file
-    from reviewer.rulebook import load_rulebook
 
-    book = load_rulebook(rule_files(args.rules))
-    reviews, problems = [], []
+    reviews, problems, books = [], [], {}
     for p in (args.old, args.new):
         try:
-            reviews.append(review_file(p, book=book, use_record=False))
+            reviews.append(review_file(p, book=rulebook(args, p, books), use_record=False))
         except InputError as e:
             problems.extend(e.problems)
     if problems:

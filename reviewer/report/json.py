@@ -89,6 +89,8 @@ def to_data(r: Review) -> dict[str, Any]:
         "summary": r.counts(),
         "findings": findings,
         "record": record,
+        "disabled_rules": [{"rule": x.rule_id, "title": x.title, "reason": x.reason,
+                            "origin": x.origin} for x in r.disabled],
         "sheet": sheet,
         "missing": [{"name": m.name, "needs": list(m.needs)} for m in r.sheet.missing.values()
                     if not m.name.startswith("design.")],

@@ -70,6 +70,11 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
     out += _findings(r)
     out += _record(r)
     out += _questions(r)
+    if r.disabled:
+        out += ["## Rules switched off", "", "| Rule | Title | Reason | By |", "|---|---|---|---|"]
+        out += [f"| `{x.rule_id}` | {_cell(x.title)} | {_cell(x.reason)} | {_cell(x.origin)} |"
+                for x in r.disabled]
+        out.append("")
     missing = r.by_outcome("needs_data")
     if missing:
         out += ["## Not checked: needs data", "",

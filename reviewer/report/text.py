@@ -94,6 +94,11 @@ def _one(console, r: Review, show_passed: bool) -> None:
         console.print(Padding(grid, (0, 0, 1, 2), expand=False))
 
     _record(console, r)
+    if r.disabled:
+        console.print(Text("Rules switched off (not checked)", style="bold"))
+        for x in r.disabled:
+            console.print(Text(f"  {x.rule_id}: {x.title} — {x.reason} (by {x.origin})"))
+        console.print()
     missing = r.by_outcome("needs_data")
     if missing:
         console.print(Text("Needs data (not checked)", style="bold magenta"))
