@@ -23,6 +23,10 @@ def _cell(text: object) -> str:
     return str(text).replace("|", "\\|").replace("\n", " ")
 
 
+def _n(count: int, noun: str) -> str:
+    return f"{count} {noun}" + ("" if count == 1 else "s")
+
+
 def _code(text: str) -> str:
     return f"`{text}`" if text else ""
 
@@ -52,8 +56,9 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
             ("Design date", d.date), ("Review date", when)]
     rec = r.record
     if rec.decisions or rec.answers or rec.proposals:
-        rows.append(("Review record", f"{len(rec.decisions)} decisions, {len(rec.answers)} "
-                                      f"answers, {len(rec.proposals)} proposed changes"))
+        rows.append(("Review record", f"{_n(len(rec.decisions), 'decision')}, "
+                                      f"{_n(len(rec.answers), 'answer')}, "
+                                      f"{_n(len(rec.proposals), 'proposed change')}"))
     out += ["| | |", "|---|---|"]
     out += [f"| **{k}** | {_cell(v)} |" for k, v in rows if v]
     out.append("")
@@ -122,7 +127,7 @@ def _summary(r: Review) -> list[str]:
     reconfirm = sum(1 for f in fails if r.state(f.key) == "reconfirm")
     undecided = sum(1 for f in fails if r.decision(f.key) is None)
     if fails:
-        out += [f"Of {len(fails)} failing findings: {settled} settled by a current decision, "
+        out += [f"Of {_n(len(fails), 'failing finding')}: {settled} settled by a current decision, "
                 f"{reconfirm} awaiting re-confirmation, {undecided} without a decision.", ""]
     else:
         out += ["No check fails.", ""]
@@ -208,7 +213,8 @@ def _questions(r: Review) -> list[str]:
             who = f"{a.reviewer} on {a.at[:10]}" if a and a.reviewer else (
                 "design file" if a is None else "")
             word = "yes" if f.outcome == "answered" else "not applicable"
-            out.append(f"| `{f.rule_id}` {_cell(f.question)} | {word} | {_cell(f.answer_note)} | "
+            note = a.note if a is not None else f.answer_note
+            out.append(f"| `{f.rule_id}` {_cell(f.question)} | {word} | {_cell(note)} | "
                        f"{_cell(who)} |")
         out.append("")
     return out
