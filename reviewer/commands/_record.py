@@ -5,12 +5,13 @@ from __future__ import annotations
 from pathlib import Path
 
 
-def load_review(design: Path, rules: list[Path]):
-    """The review of ``design`` with its record (``NAME.review.toml`` beside it)."""
-    from reviewer.commands._common import rule_files
+def load_review(design: Path, args):
+    """The review of ``design`` with its record (``NAME.review.toml`` beside it), under the
+    command's rule options (the same rules check applies)."""
+    from reviewer.commands._common import rulebook
     from reviewer.review import review_file
 
-    return review_file(design, rule_files(rules))
+    return review_file(design, book=rulebook(args, design))
 
 
 def unknown(path: Path, what: str, given: str, choices: list[str]) -> Exception:

@@ -19,8 +19,9 @@ def register(sub) -> None:
     a.add_argument("answer", choices=ANSWERS)
     a.add_argument("--note", default="", help="a note (required for not_applicable)")
     a.add_argument("--by", default=None, help="reviewer name (default: the user name)")
-    a.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder, as for check")
+    from reviewer.commands._common import add_rule_options
+
+    add_rule_options(a)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -30,7 +31,7 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.commands._record import load_review, save, unknown
     from reviewer.errors import InputError, Problem
 
-    review = load_review(args.design, args.rules)
+    review = load_review(args.design, args)
     questions = sorted({f.rule_id for f in review.findings if f.question})
     if args.question not in questions:
         raise unknown(args.design, "question", args.question, questions)

@@ -23,8 +23,9 @@ def register(sub) -> None:
                        help="remove the decision on KEY from the record (e.g. an orphan)")
     d.add_argument("--note", default="", help="the reason (required for accepted, not_applicable)")
     d.add_argument("--by", default=None, help="reviewer name (default: the user name)")
-    d.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder, as for check")
+    from reviewer.commands._common import add_rule_options
+
+    add_rule_options(d)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -35,7 +36,7 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.errors import InputError, Problem
     from reviewer.report.common import decision
 
-    review = load_review(args.design, args.rules)
+    review = load_review(args.design, args)
     record = review.record
     if args.drop:
         if args.key not in record.decisions:

@@ -15,8 +15,9 @@ def register(sub) -> None:
     r = sub.add_parser("record", help="list the decisions and answers of a design's review record")
     r.add_argument("design", type=Path, metavar="DESIGN")
     r.add_argument("--format", choices=("text", "json"), default="text")
-    r.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder, as for check")
+    from reviewer.commands._common import add_rule_options
+
+    add_rule_options(r)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -25,7 +26,7 @@ def run(args: argparse.Namespace) -> int:
     from reviewer import record as rec
     from reviewer.commands._record import load_review
 
-    review = load_review(args.design, args.rules)
+    review = load_review(args.design, args)
     if args.format == "json":
         import json
 
