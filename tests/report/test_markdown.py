@@ -210,3 +210,16 @@ def test_check_writes_pictures_beside_the_report(tmp_path, capsys):
     capsys.readouterr()
     assert main(["check", str(design), "--format", "markdown"]) == 0
     assert "## Pictures" not in capsys.readouterr().out  # to stdout: nowhere to put them
+
+
+def test_renders_as_commonmark_with_tables():
+    """Rendered by markdown-it-py (a CommonMark parser, with GitHub-style tables on): every
+    table written is a table rendered, and no raw pipe row is left as a paragraph."""
+    from markdown_it import MarkdownIt
+
+    text = markdown.render([hand_review()], review_date="2026-02-02")
+    html = MarkdownIt("gfm-like").render(text)
+    tables = len(re.findall(r"^\|---", text, flags=re.M))
+    assert tables == html.count("<table>") > 5
+    assert not re.search(r"<p>\|", html)
+    assert html.count("<h3>") == 4  # one per failing finding
