@@ -441,8 +441,11 @@ def unit_name(dim: Dim | None) -> str:
     for symbol, d in DIMENSIONS.items():
         if d == dim and symbol not in ("K", "J"):
             return symbol
-    up = "·".join(f"{b}{'' if e == 1 else e}" for b, e in zip(BASES, dim) if e > 0) or "1"
-    down = "·".join(f"{b}{'' if e == -1 else -e}" for b, e in zip(BASES, dim) if e < 0)
+    sup = str.maketrans("0123456789", "⁰¹²³⁴⁵⁶⁷⁸⁹")
+    up = "·".join(f"{b}{'' if e == 1 else str(e).translate(sup)}" for b, e in zip(BASES, dim)
+                  if e > 0) or "1"
+    down = "·".join(f"{b}{'' if e == -1 else str(-e).translate(sup)}" for b, e in zip(BASES, dim)
+                    if e < 0)
     return f"{up}/{down}" if down else up
 
 

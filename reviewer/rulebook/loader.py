@@ -414,8 +414,9 @@ def _apply(book: Rulebook, reads: list[_Read], problems: list[Problem]) -> None:
             for message, key in e.problems:
                 top = key.split(".")[0]
                 file, lines, loc = locs.get(top) or locs[""]
-                if top in ("at_most", "at_least") and top not in locs and "params" in locs:
+                if top not in locs and "params" in locs:  # the parameters changed here broke it
                     file, lines, loc = locs["params"]
+                    message, key = f"{message} (with the parameters set here)", "params"
                 problems.extend(_locate(file, lines, loc, rule.id, [(message, key)]))
             continue
         book.rules.append(rule)
