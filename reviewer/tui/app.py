@@ -23,7 +23,7 @@ from reviewer.record import NEEDS_REASON, DecisionError
 from reviewer.tui import pictures, views
 from reviewer.tui.dialogs import ChoiceDialog, KeysScreen, PathDialog, PickDialog, WhatIfDialog
 from reviewer.tui.keys import ACTIONS
-from reviewer.tui.session import Snapshot, Walk, compute
+from reviewer.tui.session import Snapshot, Walk
 from reviewer.tui.widgets import Detail, FindingList, Picture
 
 DECISIONS = [("c", "will_change", "will change the design"),
@@ -36,7 +36,7 @@ ANSWERS = [("y", "yes", "yes"), ("n", "no", "no"), ("x", "not_applicable", "does
 class WalkApp(App[int]):
     """``reviewer walk DESIGN``: take the reviewer through every finding of one design."""
 
-    CSS_PATH = "walk.tcss"
+    CSS_PATH = Path(__file__).with_name("walk.tcss")
     TITLE = "Bridge Reviewer walkthrough"
     BINDINGS = [Binding(a.keys, a.action, a.title, show=a.footer) for a in ACTIONS]
 
@@ -81,17 +81,22 @@ class WalkApp(App[int]):
     def review_again(self) -> None:
         self.busy = True
         self.query_one("#glance", Static).update(views.glance(self.walk, busy=True))
-        self._review(self.walk.record)
+        self._review()
 
     @work(thread=True, exclusive=True, group="review")
-    def _review(self, record) -> None:
-        snap = compute(self.walk.path, self.walk.book, record, self.walk.cache)
+    def _review(self) -> None:
+        snap = self.walk.refresh()
         if not get_current_worker().is_cancelled:
             self.call_from_thread(self.installed, snap)
 
     def installed(self, snap: Snapshot) -> None:
-        self.walk.install(snap)
+        first = not self.walk.snapshot.ok
+        if self.walk.install(snap):
+            self.review_again()  # the record changed while this review ran
+            return
         self.busy = False
+        if first and self.selected is None:  # start on the first item that needs a decision
+            self.selected = self.walk.next_undecided(None)
         self.show_all()
 
     def watch_files(self) -> None:
@@ -140,10 +145,11 @@ class WalkApp(App[int]):
         r = self.walk.review
         if r is None:
             return
-        width = max(20, self.query_one("#tabs").size.width - 40)
-        self.query_one("#timing-picture", Picture).show("\n".join(pictures.timing_picture(r.sheet, width)))
+        pane = self.query_one("#tabs").size.width
+        self.query_one("#timing-picture", Picture).show(
+            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - 17))))
         self.query_one("#spectrum-picture", Picture).show(
-            "\n".join(pictures.spectrum_picture(r.sheet, max(20, width + 4))))
+            "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 23))))
 
     def on_resize(self) -> None:
         if self.walk.snapshot.ok:

@@ -23,24 +23,11 @@ from reviewer.tui.keys import ACTIONS, DIALOG_KEYS, key_text
 
 Apply = Callable[[str, str], "str | None"]
 
-DIALOG_CSS = """
-ModalScreen { align: center middle; }
-ModalScreen > Vertical {
-    width: 76; max-width: 100%; height: auto; max-height: 100%;
-    border: round $accent; background: $panel; padding: 0 1;
-}
-ModalScreen .title { text-style: bold; }
-ModalScreen .subject { color: $text-muted; }
-ModalScreen .error { color: $error; text-style: bold; }
-ModalScreen .hint { color: $text-muted; }
-ModalScreen OptionList { height: auto; max-height: 8; }
-"""
 
 
 class ChoiceDialog(ModalScreen[bool]):
     """Choose one of a few values by its letter (or the arrows), add a note, press Enter."""
 
-    DEFAULT_CSS = DIALOG_CSS
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
     def __init__(self, title: str, subject: str, choices: Sequence[tuple[str, str, str]],
@@ -56,17 +43,16 @@ class ChoiceDialog(ModalScreen[bool]):
         self.focus_note = focus_note
 
     def compose(self) -> ComposeResult:
-        with Vertical():
-            yield Static(self.title_text, classes="title")
-            yield Static(self.subject, classes="subject")
+        with Vertical(classes="dialog"):
+            yield Static(self.title_text, classes="title", markup=False)
+            yield Static(self.subject, classes="subject", markup=False)
             if self.choices:
                 yield OptionList(*[Option(f"{k}  {words}", id=v) for k, v, words in self.choices],
                                  id="choice")
             yield Input(self.note, placeholder=f"{self.note_label} (Enter to save)", id="note")
-            yield Static("", classes="error", id="error")
-            letters = " · ".join(f"{k} {w.split()[0]}" for k, _, w in self.choices)
-            yield Static((letters + " · " if letters else "") + "Tab note · Enter save · Esc close",
-                         classes="hint")
+            yield Static("", classes="error", id="error", markup=False)
+            yield Static(("letter or ↑↓ to choose · " if self.choices else "")
+                         + "Tab to the note · Enter save · Esc close", classes="hint")
 
     def on_mount(self) -> None:
         if self.choices:
@@ -113,7 +99,6 @@ class ChoiceDialog(ModalScreen[bool]):
 class WhatIfDialog(ModalScreen[bool]):
     """A design field and the value to try; checked before it is kept."""
 
-    DEFAULT_CSS = DIALOG_CSS
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
     def __init__(self, fields: list[str], current: Callable[[str], str], apply: Callable[[str, str, str], "str | None"],
@@ -123,16 +108,16 @@ class WhatIfDialog(ModalScreen[bool]):
         self.field, self.preset_value = field, value
 
     def compose(self) -> ComposeResult:
-        with Vertical():
-            yield Static("What if… (a proposal: the design file is not changed)", classes="title")
-            yield Static("Design field, e.g. timing.dead_time", classes="subject")
+        with Vertical(classes="dialog"):
+            yield Static("What if… (a proposal: the design file is not changed)", classes="title", markup=False)
+            yield Static("Design field, e.g. timing.dead_time", classes="subject", markup=False)
             yield Input(self.field, placeholder="field", id="field",
                         suggester=SuggestFromList(self.fields, case_sensitive=False))
-            yield Static("Value to try, as in the design file, e.g. 800 ns", classes="subject")
+            yield Static("Value to try, as in the design file, e.g. 800 ns", classes="subject", markup=False)
             yield Input(self.preset_value or (self.current(self.field) if self.field else ""),
                         placeholder="value", id="value")
             yield Input("", placeholder="why (optional note)", id="why")
-            yield Static("", classes="error", id="error")
+            yield Static("", classes="error", id="error", markup=False)
             yield Static("→ accepts a suggestion · Enter next / try it · Esc close", classes="hint")
 
     def on_mount(self) -> None:
@@ -166,7 +151,6 @@ class WhatIfDialog(ModalScreen[bool]):
 class PickDialog(ModalScreen[str | None]):
     """Pick one entry of a list (a proposal to withdraw)."""
 
-    DEFAULT_CSS = DIALOG_CSS
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
     def __init__(self, title: str, entries: Sequence[tuple[str, str]]):
@@ -174,8 +158,8 @@ class PickDialog(ModalScreen[str | None]):
         self.title_text, self.entries = title, list(entries)
 
     def compose(self) -> ComposeResult:
-        with Vertical():
-            yield Static(self.title_text, classes="title")
+        with Vertical(classes="dialog"):
+            yield Static(self.title_text, classes="title", markup=False)
             yield OptionList(*[Option(label, id=key) for key, label in self.entries], id="pick")
             yield Static("Enter choose · Esc close", classes="hint")
 
@@ -193,7 +177,6 @@ class PickDialog(ModalScreen[str | None]):
 class PathDialog(ModalScreen[bool]):
     """A file name to write to (the Markdown export)."""
 
-    DEFAULT_CSS = DIALOG_CSS
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
     def __init__(self, title: str, default: str, apply: Callable[[str], "str | None"]):
@@ -201,10 +184,10 @@ class PathDialog(ModalScreen[bool]):
         self.title_text, self.default, self.apply = title, default, apply
 
     def compose(self) -> ComposeResult:
-        with Vertical():
-            yield Static(self.title_text, classes="title")
+        with Vertical(classes="dialog"):
+            yield Static(self.title_text, classes="title", markup=False)
             yield Input(self.default, id="path")
-            yield Static("", classes="error", id="error")
+            yield Static("", classes="error", id="error", markup=False)
             yield Static("Enter write · Esc close", classes="hint")
 
     def on_mount(self) -> None:
@@ -225,7 +208,6 @@ class PathDialog(ModalScreen[bool]):
 class KeysScreen(ModalScreen[None]):
     """Every key of the walkthrough, made from the same table as the bindings."""
 
-    DEFAULT_CSS = DIALOG_CSS + "KeysScreen > Vertical { width: 84; height: 90%; }"
     BINDINGS = [Binding("escape,q,question_mark,h", "close", "Close")]
 
     def compose(self) -> ComposeResult:
@@ -240,7 +222,7 @@ class KeysScreen(ModalScreen[None]):
             t.append(f"{what}  ({where.lower()})\n")
         t.append("\nEvery decision, note, answer and proposal is saved to the record file at once. "
                  "The design file is only ever read.\n", style="italic")
-        with Vertical():
+        with Vertical(classes="dialog", id="keys-dialog"):
             with VerticalScroll():
                 yield Static(t, id="keys")
             yield Static("Esc close", classes="hint")

@@ -1,48 +1,57 @@
-"""The Markdown report as the walkthrough shows it: the project's Markdown view, plus what-if notes.
+"""The Markdown report from the walkthrough: the project's Markdown view of the design as filed,
+plus what the proposed changes would do.
 
-The report itself is :func:`reviewer.report.markdown.render`. When the review was computed with
-proposed changes applied and that view does not already list them, a short section saying so is
-put under the title, so that a report never shows a what-if result as if it were the design file.
+The report itself is :func:`reviewer.report.markdown.render` of the design as filed (the same
+report as ``reviewer check --format markdown``, which lists the record's proposals). When there
+are proposals, a section says which findings they would change, so that a what-if result is
+never shown as if it were the design file's.
 """
 
 from __future__ import annotations
 
 from reviewer.review import Review
 
+HEADING = "## What the proposed changes would do (what-if)"
 
-def proposals_section(current: Review, filed: Review | None) -> str:
-    """Markdown naming every proposal and which findings it changes, or '' when there are none."""
-    props = current.record.proposals
-    if not props:
+
+def whatif_section(filed: Review, current: Review | None) -> str:
+    """Markdown naming every proposal and each finding whose outcome it changes, or ''."""
+    props = filed.record.proposals
+    if not props or current is None:
         return ""
-    out = ["## Proposed changes (what-if, not in the design file)", "",
-           "The findings in this report are computed with these changes applied; the design "
-           "file itself is unchanged.", "", "| Field | Proposed value | Note |", "|---|---|---|"]
+    out = [HEADING, "",
+           "Every other section of this report is of the design file as filed. With the "
+           "proposed changes below applied (they are kept in the review record; the design file "
+           "is unchanged), these checks would change:", "",
+           "| Field | Proposed value | Note |", "|---|---|---|"]
     for p in sorted(props.values(), key=lambda p: p.field):
-        note = p.note.replace("|", "\\|")
-        out.append(f"| `{p.field}` | {p.value} | {note} |")
+        out.append(f"| `{p.field}` | {p.value} | {p.note.replace('|', '/')} |")
     out.append("")
-    if filed is not None and filed is not current:
-        before = {f.key: f.outcome for f in filed.findings}
-        moved = [(f.key, before.get(f.key, "absent"), f.outcome) for f in current.findings
-                 if before.get(f.key) != f.outcome]
-        if moved:
-            out += ["| Check | As filed | With the changes |", "|---|---|---|"]
-            out += [f"| `{k}` | {a} | {b} |" for k, a, b in moved]
-            out.append("")
+    before = {f.key: f.outcome for f in filed.findings}
+    moved = [(f.key, before.get(f.key, "absent"), f.outcome) for f in current.findings
+             if before.get(f.key) != f.outcome]
+    if current is filed:
+        out += ["The proposals do not validate against the design format, so nothing was "
+                "computed with them.", ""]
+    elif moved:
+        out += ["| Check | As filed | With the changes |", "|---|---|---|"]
+        out += [f"| `{k}` | {a} | {b} |" for k, a, b in moved]
+        out.append("")
+    else:
+        out += ["No check changes its outcome.", ""]
     return "\n".join(out)
 
 
-def markdown_report(current: Review, filed: Review | None = None) -> str:
-    """The Markdown report of ``current``, with a what-if section when it needs one."""
+def markdown_report(filed: Review, current: Review | None = None) -> str:
+    """The Markdown report of ``filed``, with the what-if section when there are proposals."""
     from reviewer.report import markdown
 
-    text = markdown.render([current])
-    extra = proposals_section(current, filed)
-    if not extra or ("propos" in text.lower()
-                      and all(k in text for k in current.record.proposals)):
+    text = markdown.render([filed])
+    extra = whatif_section(filed, current)
+    if not extra:
         return text
-    head, sep, rest = text.partition("\n## ")
-    if not sep:
-        return text.rstrip("\n") + "\n\n" + extra
-    return head.rstrip("\n") + "\n\n" + extra + "\n## " + rest
+    for anchor in ("\n## Appendix", "\n## Proposed changes"):
+        at = text.find(anchor)
+        if at >= 0:
+            return text[:at].rstrip("\n") + "\n\n" + extra + "\n" + text[at:]
+    return text.rstrip("\n") + "\n\n" + extra

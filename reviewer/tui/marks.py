@@ -11,8 +11,8 @@ OUTCOME_MARK = {
     "hazard": ("▲", "HAZARD", "bold red"),
     "risk": ("◆", "RISK", "bold dark_orange"),
     "advice": ("●", "ADVICE", "cyan"),
-    "open": ("?", "QUESTION", "bold magenta"),
-    "needs_data": ("∅", "NEEDS DATA", "yellow"),
+    "open": ("?", "OPEN", "bold magenta"),
+    "needs_data": ("∅", "DATA", "yellow"),
     "pass": ("✓", "PASS", "green"),
     "answered": ("✓", "ANSWERED", "green"),
     "not_applicable": ("–", "N/A", "dim"),
@@ -29,6 +29,9 @@ DECISION_MARK = {
     "resolved": ("[=]", "resolved: no longer fails"),
     "orphan": ("[?]", "kept: its finding no longer exists"),
 }
+
+LONG_WORD = {"open": "OPEN QUESTION", "needs_data": "NEEDS DATA"}
+"""The words in full where there is room (details, status line)."""
 
 ANSWER_WORD = {"yes": "yes", "no": "no", "not_applicable": "does not apply"}
 

@@ -151,39 +151,37 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
             row[c] = "─"
     else:
         row[a] = "┃"
-    lines.append(f"{'dead time':<{lead_w}}" + "".join(row) + f"  {render(dead, 's')}")
+    lines.append(f"{'dead time':<{lead_w}}" + "".join(row))
+    summary = f"dead time {render(dead, 's')}"
     if e.has_switching:
         overlap = e.overlap if e.overlap is not None else max(0.0, e.off_total - on_start)
         if overlap > 0:
             row = [" "] * width
             for c in range(col(on_start), max(col(on_start + overlap), col(on_start) + 1)):
                 row[c] = OVERLAP
-            lines.append(f"{'BOTH ON':<{lead_w}}" + "".join(row) +
-                         f"  SHOOT-THROUGH {render(overlap, 's')}")
+            lines.append(f"{'BOTH ON':<{lead_w}}" + "".join(row))
+            summary += f" · SHOOT-THROUGH: both on for {render(overlap, 's')}"
         else:
             gap = on_start - e.off_total
-            lines.append(f"{'both on':<{lead_w}}" + " " * width +
-                         f"  never (margin {render(gap, 's')})")
+            summary += f" · both on: never (margin {render(gap, 's')})"
     lines += _axis(t0, t1, width, " " * lead_w)
+    lines.append(summary)
     if e.has_switching:
-        lines.append("")
         lines.append(f"{out}: turn-off delay {render(e.td_off, 's')}, off after "
                      f"{render(e.off_total, 's')} (estimated)")
         lines.append(f"{inc}: turn-on delay {render(e.td_on, 's')}, rise "
                      f"{render(e.rise, 's')} (estimated)")
     elif e.needs:
-        lines.append("")
         lines.append("Switching transitions not estimated: give " + ", ".join(e.needs))
     else:
-        lines.append("")
         lines.append("Switching transitions not estimated for this design.")
     return lines
 
 
 def timing_picture(sheet: Sheet, width: int = 60) -> list[str]:
     """Both edges of a leg. Both legs of the bridge use the same parts and timing."""
-    lines = [f"Key: {ON} on   {EDGE} switching (estimated)   {OFF} off   "
-             f"{OVERLAP} both switches on", ""]
+    lines = [f"Key: {ON} on   {EDGE} switching (estimated)   {OFF} off",
+             f"     {OVERLAP} both switches of the leg on (shoot-through)", ""]
     for incoming in ("low", "high"):
         lines += timing_lines(edge(sheet, incoming), width)
         lines.append("")
@@ -293,8 +291,8 @@ def spectrum_lines(s: Spectrum, width: int = 60, height: int = 8, floor_db: floa
 
     before = columns(s.before)
     after = columns(s.after) if s.after is not None else None
-    lines = [f"Key: {EDGE} before the filter (bridge)   {ON} after the filter (load)"
-             if after is not None else f"Key: {ON} bridge output (no filter data)", ""]
+    lines = ([f"Key: {EDGE} before the filter (bridge)", f"     {ON} after the filter (load)"]
+             if after is not None else [f"Key: {ON} bridge output (no filter data)", ""])
     for r in range(height):
         level = -(r + 0.5) * (-floor_db) / height  # dB at the middle of this row
         row = []
@@ -340,12 +338,12 @@ def thd_lines(before: float | None, after: float | None, target: float | None,
         row = _bar(v, scale, width)
         if tcol is not None:
             row[tcol] = "┃"
-        verdict = ""
-        if target is not None and name == "THD after":
-            verdict = "  within target" if v <= target else "  ABOVE TARGET"
-        out.append(f"{name:<12}" + "".join(row) + f" {v * 100:.1f} %{verdict}")
+        out.append(f"{name:<12}" + "".join(row) + f" {v * 100:.1f} %")
     if tcol is not None:
         out.append(" " * (12 + tcol) + f"┗ target {target * 100:.1f} %")
+        if after is not None:
+            out.append(f"After the filter: {after * 100:.1f} %, "
+                       + ("within the target." if after <= target else "ABOVE THE TARGET."))
     return out
 
 

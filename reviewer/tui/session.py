@@ -12,10 +12,14 @@ import os
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
+from typing import TYPE_CHECKING
+
 from reviewer import record as rec
 from reviewer.errors import InputError, Problem
 from reviewer.findings import SEVERITIES, Finding
-from reviewer.review import Review, answers_of
+
+if TYPE_CHECKING:  # the review machinery is imported in the worker, after the first screen
+    from reviewer.review import Review
 
 NEEDS_ATTENTION = ("fail", "open", "needs_data")
 PASSED = ("pass", "answered", "not_applicable")
@@ -117,7 +121,7 @@ def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
               proposals: dict[str, str]) -> Review:
     """The review of ``text`` with ``proposals``: from the cache when the inputs are the same."""
     from reviewer.engine import evaluate
-    from reviewer.review import review_design
+    from reviewer.review import Review, answers_of, review_design
     from reviewer.whatif import apply_to_text
 
     key = (name, text, tuple(sorted(proposals.items())))
@@ -143,25 +147,35 @@ class Walk:
     """The walkthrough of one design: its record, its latest snapshot, and the actions on them."""
 
     path: Path
-    book: object
+    rule_files: list[Path] = field(default_factory=list)
     reviewer: str = ""
+    book: object | None = None
     record: rec.Record = field(default_factory=rec.Record)
     snapshot: Snapshot = field(default_factory=Snapshot)
     show_passed: bool = False
     record_mtime: float | None = None
     cache: dict = field(default_factory=dict)
 
+    loaded: bool = False
+
     @classmethod
     def open(cls, path: str | Path, rule_files: list[Path] | None = None,
              reviewer: str | None = None) -> "Walk":
-        """Load the rule book and the record (fast); the review itself is :meth:`refresh`."""
+        """A walk of the design at ``path``; nothing is read until :meth:`refresh`."""
+        if reviewer is None:
+            name = getattr(rec, "reviewer_name", None)
+            reviewer = name() if name else os.environ.get("USER", "")
+        return cls(Path(path), list(rule_files or []), reviewer)
+
+    def load(self) -> None:
+        """Read the rule book and the record, once (raises InputError for bad files)."""
+        if self.loaded:
+            return
         from reviewer.rulebook import load_rulebook
 
-        p = Path(path)
-        walk = cls(p, load_rulebook(rule_files), reviewer if reviewer is not None else
-                   os.environ.get("USER", ""))
-        walk.record = walk._read_record()
-        return walk
+        self.book = load_rulebook(self.rule_files)
+        self.record = self._read_record()
+        self.loaded = True
 
     # files --------------------------------------------------------------------------------
     @property
@@ -201,10 +215,20 @@ class Walk:
     # reviewing ----------------------------------------------------------------------------
     def refresh(self) -> Snapshot:
         """Review the design again from its file (the heavy step: run it in a worker)."""
+        try:
+            self.load()
+        except InputError as e:
+            return Snapshot(problems=tuple(e.problems))
         return compute(self.path, self.book, self.record, self.cache)
 
-    def install(self, snap: Snapshot) -> None:
-        self.snapshot = snap
+    def install(self, snap: Snapshot) -> bool:
+        """Show ``snap`` with the latest record; True when it was computed with answers or
+        proposals that have changed since (review again)."""
+        r = snap.filed
+        stale = r is not None and (r.record.answers != self.record.answers
+                                   or r.record.proposals != self.record.proposals)
+        self.snapshot = _restamp(snap, self.record)
+        return stale
 
     @property
     def review(self) -> Review | None:
@@ -226,7 +250,11 @@ class Walk:
         areas: dict[str, list[Item]] = {}
         for i in sorted(shown, key=Item.sort_key):
             areas.setdefault(i.area, []).append(i)
-        order = sorted(areas, key=lambda a: (areas[a][0].sort_key()[:2], a))
+        def rank(area: str) -> tuple:
+            worst = areas[area][0].sort_key()[:2]  # the area's worst item, then how many such
+            return (worst, -sum(1 for i in areas[area] if i.sort_key()[:2] == worst), area)
+
+        order = sorted(areas, key=rank)
         return [i for a in order for i in areas[a]]
 
     def decision(self, key: str) -> rec.Decision | None:
@@ -239,6 +267,8 @@ class Walk:
         return rec.state(d, item.filed if item.filed is not None else item.current)
 
     def answer_of(self, item: Item) -> tuple[str, str] | None:
+        from reviewer.review import answers_of
+
         r = self.review
         if r is None or not item.is_question:
             return None
@@ -363,7 +393,8 @@ class Walk:
         return sorted(n for n in names if not n.startswith(("design.", "checklist.")))
 
     def export(self, target: str | Path) -> Path:
-        """Write the Markdown report of the review as shown; never over the design file."""
+        """Write the Markdown report (the design as filed, and what the proposals would change);
+        never over the design file or its record."""
         from reviewer.tui.export import markdown_report
 
         t = Path(target)
@@ -375,7 +406,7 @@ class Walk:
             raise InputError(list(s.problems))
         from reviewer.atomic import write_text
 
-        write_text(t, markdown_report(s.current, s.filed))
+        write_text(t, markdown_report(s.filed, s.current))
         return t
 
     def default_export(self) -> Path:

@@ -10,8 +10,7 @@ from rich.text import Text
 
 from reviewer.errors import Problem
 from reviewer.report import common
-from reviewer.review import CAUTION
-from reviewer.tui.marks import ANSWER_WORD, decision_mark, outcome_mark
+from reviewer.tui.marks import ANSWER_WORD, LONG_WORD, decision_mark, outcome_mark
 from reviewer.tui.session import Item, Walk
 
 
@@ -34,12 +33,14 @@ def item_prompt(walk: Walk, item: Item, width: int = 40) -> Text:
         tail = decision_mark(d.kind if d else None, walk.decision_state(item))[0]
     else:
         tail = "   "
-    name_w = max(8, width - 16)
+    name_w = max(8, width - 13)
     name = short_name(item)
-    if len(name) > name_w:
-        name = name[: name_w - 1] + "…"
+    if len(name) > name_w:  # shorten the rule's name, never the subject (high / low)
+        rid = f.rule_id.removeprefix(f.area + ".")
+        room = name_w - len(f.subject) - 2 if f.subject else name_w - 1
+        name = (rid[:max(room, 1)] + "…" + (" " + f.subject if f.subject else ""))[:name_w]
     t = Text()
-    t.append(f"{sym} {word:<10} ", style=style)
+    t.append(f"{sym} {word:<6} ", style=style)
     t.append(f"{name:<{name_w}}")
     t.append(f" {tail}", style="bold" if tail == "[ ]" else "")
     if item.changed and walk.record.proposals:
@@ -56,7 +57,7 @@ def area_header(area: str, items: list[Item]) -> Text:
     failing = sum(1 for i in items if i.outcome == "fail")
     t = Text()
     t.append(f"{area.upper()}", style="bold underline")
-    t.append(f"  {failing} failing · {len(items)} shown", style="dim")
+    t.append(f"  {failing} of {len(items)} failing", style="dim")
     return t
 
 
@@ -110,6 +111,8 @@ def caution(walk: Walk) -> Text | None:
     cur = walk.snapshot.current
     if not ((r is not None and r.beyond_elv) or (cur is not None and cur.beyond_elv)):
         return None
+    from reviewer.review import CAUTION
+
     t = Text()
     t.append("⚠ CAUTION: BEYOND EXTRA-LOW VOLTAGE. ", style="bold")
     t.append(CAUTION)
@@ -133,6 +136,7 @@ def detail(walk: Walk, item: Item | None) -> Text:
         return t
     f = item.finding
     sym, word, style = outcome_mark(f.outcome, f.severity)
+    word = LONG_WORD.get(f.outcome, word)
     t.append(f"{sym} {word}", style=style + " reverse")
     t.append(f"  {f.title}\n", style="bold")
     t.append(f"{f.key}   area {f.area}   severity {f.severity}   {f.origin} rule\n\n", style="dim")
@@ -145,7 +149,7 @@ def detail(walk: Walk, item: Item | None) -> Text:
             _row(t, "Answer", ANSWER_WORD.get(ans[0], ans[0]) + (f": {ans[1]}" if ans[1] else ""))
         t.append("\n")
     if f.value is not None:
-        _row(t, "Computed", common.computed(f) + "  (worst corner, then typical)")
+        _row(t, "Computed", common.computed(f) + " at the worst corner")
         _row(t, "Limit", common.limit(f))
         _row(t, "Margin", common.margin(f), "bold" if (f.margin or 0) < 0 else "")
         _row(t, "Worst at", common.corner(f))

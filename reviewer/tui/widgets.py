@@ -24,7 +24,7 @@ class FindingList(OptionList):
     def show(self, walk: Walk, keep: str | None) -> str | None:
         """Rebuild from ``walk``; keep ``keep`` highlighted if still listed. Returns the key."""
         items = walk.items()
-        width = max(24, (self.size.width or 40) - 4)
+        width = max(24, (self.scrollable_content_region.width or 40) - 3)
         by_area: dict[str, list] = {}
         for i in items:
             by_area.setdefault(i.area, []).append(i)

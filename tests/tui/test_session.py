@@ -93,6 +93,7 @@ def test_export_marks_proposals_and_refuses_the_design(naive, tmp_path):
     text = out.read_text(encoding="utf-8")
     assert text.startswith("# ") and "First bench inverter, 24 V" in text
     assert "drive.shared_signal" in text and "propos" in text.lower()
+    assert "## What the proposed changes would do (what-if)" in text
     with pytest.raises(Exception):
         walk.export(naive)
     assert naive.read_text(encoding="utf-8").startswith("#")
