@@ -92,3 +92,10 @@ def test_render():
     assert render(0.8, "%") == "80 %"
     assert render(math.radians(30), "rad") == "30°"
     assert render(float("inf"), "°C") == "∞ °C"
+
+
+def test_area_prefix_is_squared_and_degree_is_an_angle():
+    # 1 mm² = (10^-3 m)² = 10^-6 m² (SI Brochure, 9th ed., 5.4.3: a prefix is raised with its unit)
+    assert parse_with_unit("3 mm²") == (pytest.approx(3e-6), "m²")
+    assert parse_with_unit("23 °") == (pytest.approx(math.radians(23)), "rad")
+    assert parse_with_unit("25 °C") == (25.0, "°C")
