@@ -33,7 +33,7 @@ import math
 import operator
 import re
 from dataclasses import dataclass, field
-from functools import reduce
+from functools import lru_cache, reduce
 from typing import Any, Callable
 
 MAX_LENGTH = 2000
@@ -354,9 +354,18 @@ class Expr:
 
 
 def compile_expr(text: str) -> Expr:
-    """Check and rewrite ``text``; raise :class:`ExprError` saying what is not allowed."""
+    """Check and rewrite ``text``; raise :class:`ExprError` saying what is not allowed.
+
+    Compiled expressions are immutable and cached on their text: rule files and mitigation
+    texts repeat them across subjects and reviews.
+    """
     if not isinstance(text, str) or not text.strip():
         raise ExprError("an expression must be a non-empty text")
+    return _compile(text)
+
+
+@lru_cache(maxsize=4096)
+def _compile(text: str) -> Expr:
     if len(text) > MAX_LENGTH:
         raise ExprError(f"expression longer than {MAX_LENGTH} characters")
     if max(text.count("("), text.count("["), text.count("{")) > MAX_DEPTH:
