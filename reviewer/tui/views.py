@@ -111,12 +111,14 @@ def caution(walk: Walk) -> Text | None:
     cur = walk.snapshot.current
     if not ((r is not None and r.beyond_elv) or (cur is not None and cur.beyond_elv)):
         return None
-    from reviewer.review import CAUTION
-
     t = Text()
-    t.append("⚠ CAUTION: BEYOND EXTRA-LOW VOLTAGE. ", style="bold")
-    t.append(CAUTION)
+    t.append("⚠ CAUTION: BEYOND EXTRA-LOW VOLTAGE: it can kill. ", style="bold")
+    t.append(SHORT_CAUTION)
     return t
+
+
+SHORT_CAUTION = ("This review is an aid, not an approval. Follow your local electrical codes and "
+                 "have a qualified person examine the design before it is powered.")
 
 
 def _row(t: Text, label: str, value: str, style: str = "") -> None:
@@ -158,7 +160,9 @@ def detail(walk: Walk, item: Item | None) -> Text:
     if f.assumptions:
         _row(t, "Assumes", "; ".join(f.assumptions))
     if f.why:
-        t.append("\nWhy it matters\n", style="bold underline")
+        if not t.plain.endswith("\n\n"):
+            t.append("\n")
+        t.append("Why it matters\n", style="bold underline")
         t.append(f.why + "\n")
     if f.mitigation:
         t.append("\nWhat to do\n", style="bold underline")
