@@ -18,6 +18,10 @@ def register(sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from reviewer.errors import InputError, Problem
+
+    if not args.design.is_file():  # nothing to watch: say so on the command line
+        raise InputError([Problem(str(args.design), None, "", "no such design file")])
     from reviewer.tui.app import WalkApp
     from reviewer.tui.session import Walk
 
