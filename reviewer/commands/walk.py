@@ -5,14 +5,13 @@ from __future__ import annotations
 import argparse
 from pathlib import Path
 
-from reviewer.commands._common import rule_files
+from reviewer.commands._common import add_rule_options
 
 
 def register(sub) -> None:
     w = sub.add_parser("walk", help="walk through the findings of a design, deciding each one")
     w.add_argument("design", type=Path, metavar="DESIGN")
-    w.add_argument("--rules", type=Path, action="append", default=[], metavar="PATH",
-                   help="extra rule file or folder (may be given more than once)")
+    add_rule_options(w)
     w.add_argument("--reviewer", default=None,
                    help="name written with each decision (default: your user name)")
 
@@ -25,6 +24,7 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.tui.app import WalkApp
     from reviewer.tui.session import Walk
 
-    walk = Walk.open(args.design, rule_files(args.rules), args.reviewer)
+    walk = Walk.open(args.design, args.rules, args.reviewer, profile=args.profile,
+                     house=not args.no_house_rules)
     result = WalkApp(walk).run()
     return result or 0

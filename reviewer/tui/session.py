@@ -137,7 +137,7 @@ def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
     review, seen = hit
     if seen != answers_key:
         findings = evaluate(book, review.sheet, answers_of(review.design, record))
-        review = Review(review.path, review.design, review.sheet, tuple(findings), record)
+        review = replace(review, findings=tuple(findings), record=record)
         cache[key] = (review, answers_key)
     return replace(review, record=record)
 
@@ -149,6 +149,9 @@ class Walk:
     path: Path
     rule_files: list[Path] = field(default_factory=list)
     reviewer: str = ""
+    profile: str = "default"
+    house: bool = True
+    """Apply the user's and the project's house-rules folders, as every reviewing command does."""
     book: object | None = None
     record: rec.Record = field(default_factory=rec.Record)
     snapshot: Snapshot = field(default_factory=Snapshot)
@@ -160,20 +163,22 @@ class Walk:
 
     @classmethod
     def open(cls, path: str | Path, rule_files: list[Path] | None = None,
-             reviewer: str | None = None) -> "Walk":
+             reviewer: str | None = None, profile: str = "default",
+             house: bool = True) -> "Walk":
         """A walk of the design at ``path``; nothing is read until :meth:`refresh`."""
         if reviewer is None:
             name = getattr(rec, "reviewer_name", None)
             reviewer = name() if name else os.environ.get("USER", "")
-        return cls(Path(path), list(rule_files or []), reviewer)
+        return cls(Path(path), list(rule_files or []), reviewer, profile, house)
 
     def load(self) -> None:
         """Read the rule book and the record, once (raises InputError for bad files)."""
         if self.loaded:
             return
-        from reviewer.rulebook import load_rulebook
+        from reviewer.rulebook.discover import rulebook_for
 
-        self.book = load_rulebook(self.rule_files)
+        self.book = rulebook_for(self.path, self.rule_files, profile=self.profile,
+                                 house=self.house)
         self.record = self._read_record()
         self.loaded = True
 

@@ -116,3 +116,20 @@ def test_notices_a_changed_design(naive):
     st = naive.stat()
     os.utime(naive, (st.st_atime, st.st_mtime + 5))
     assert walk.changed_on_disk()[0] is True
+
+
+def test_walk_applies_project_house_rules(tmp_path):
+    # the walk sees the same rules as `reviewer check`: a project house-rules folder beside the
+    # design switches a built-in rule off, with its reason
+    import shutil
+
+    from tests.conftest import example
+
+    design = tmp_path / "d.toml"
+    shutil.copy(example("careful_12v_sine"), design)
+    (tmp_path / "house-rules").mkdir()
+    (tmp_path / "house-rules" / "team.toml").write_text(
+        '[[disable]]\nid = "stress.vds-headroom"\nreason = "our parts are all 60 V"\n')
+    review = opened(design).review
+    assert [d.rule_id for d in review.disabled] == ["stress.vds-headroom"]
+    assert all(f.rule_id != "stress.vds-headroom" for f in review.findings)
