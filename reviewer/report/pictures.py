@@ -25,7 +25,7 @@ from typing import Any
 from reviewer.review import Review
 from reviewer.units import render
 
-OTHER = {"high": "low", "low": "high"}
+from reviewer.report.timing import OTHER
 
 
 class PicturesUnavailable(RuntimeError):
@@ -71,24 +71,15 @@ def leg_timing(r: Review) -> dict[str, dict[str, float | None]] | None:
     ``off`` (delay plus fall plus tail: until its channel is off), the incoming switch's
     ``td_on`` and ``rise``, and ``overlap`` as published. None when no dead time is known.
     """
+    from reviewer.report.timing import edge
+
     out: dict[str, dict[str, float | None]] = {}
     for side in ("low", "high"):
-        other = OTHER[side]
-        dead = _v(r, f"timing.{side}.dead_time")
-        if dead is None:
-            dead = _v(r, f"design.timing.dead_time_{side}")
-        if dead is None:
-            dead = _v(r, "design.timing.dead_time")
-        if dead is None:
+        e = edge(r.sheet, side)
+        if e.dead is None:
             return None
-        out[side] = {
-            "dead": dead,
-            "td_off": _v(r, f"switching.{other}.td_off"),
-            "off": _v(r, f"switching.{other}.turn_off_time"),
-            "td_on": _v(r, f"switching.{side}.td_on"),
-            "rise": _v(r, f"switching.{side}.rise_time"),
-            "overlap": _v(r, f"timing.{side}.overlap"),
-        }
+        out[side] = {"dead": e.dead, "td_off": e.td_off, "off": e.off_total, "td_on": e.td_on,
+                     "rise": e.rise, "overlap": e.overlap}
     return out
 
 

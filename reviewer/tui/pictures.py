@@ -13,68 +13,10 @@ from dataclasses import dataclass
 from typing import Any
 
 from reviewer.quantities import Sheet
+from reviewer.report.timing import OTHER, Edge, edge, typical
 from reviewer.units import render
 
 ON, OFF, EDGE, OVERLAP = "█", "▁", "▒", "▓"
-OTHER = {"high": "low", "low": "high"}
-
-
-def _q(sheet: Sheet, name: str) -> float | None:
-    q = sheet.get(name)
-    if q is None or isinstance(q.typ, bool) or not isinstance(q.typ, (int, float)):
-        return None
-    return float(q.typ)
-
-
-@dataclass(frozen=True)
-class Edge:
-    """One commutation of a leg: ``outgoing`` turns off, then ``incoming`` turns on [s]."""
-
-    incoming: str
-    dead: float | None
-    td_off: float | None = None
-    fall: float | None = None
-    off_total: float | None = None
-    td_on: float | None = None
-    rise: float | None = None
-    overlap: float | None = None
-    needs: tuple[str, ...] = ()
-
-    @property
-    def outgoing(self) -> str:
-        return OTHER[self.incoming]
-
-    @property
-    def has_switching(self) -> bool:
-        return None not in (self.td_off, self.off_total, self.td_on, self.rise)
-
-
-def edge(sheet: Sheet, incoming: str) -> Edge:
-    """The typical-corner timing of the edge where ``incoming`` ("high"/"low") turns on."""
-    out = OTHER[incoming]
-    dead = _q(sheet, f"timing.{incoming}.dead_time")
-    if dead is None:
-        dead = _q(sheet, f"design.timing.dead_time_{incoming}")
-    if dead is None:
-        dead = _q(sheet, "design.timing.dead_time")
-    if dead is None and sheet.value("design.drive.shared_signal", False):
-        dead = 0.0
-    needs: tuple[str, ...] = ()
-    for name in (f"switching.{incoming}.td_on", f"switching.{out}.td_off",
-                 f"timing.{incoming}.outgoing_turn_off"):
-        m = sheet.missing.get(name)
-        if m is not None:
-            needs += tuple(n for n in m.needs if n not in needs)
-    overlap = _q(sheet, f"timing.{incoming}.overlap")
-    return Edge(
-        incoming, dead,
-        td_off=_q(sheet, f"switching.{out}.td_off"),
-        fall=_q(sheet, f"switching.{out}.fall_time"),
-        off_total=_q(sheet, f"timing.{incoming}.outgoing_turn_off")
-        or _q(sheet, f"switching.{out}.turn_off_time"),
-        td_on=_q(sheet, f"timing.{incoming}.incoming_delay") or _q(sheet, f"switching.{incoming}.td_on"),
-        rise=_q(sheet, f"switching.{incoming}.rise_time"),
-        overlap=overlap, needs=needs)
 
 
 def _nice_step(span: float, ticks: int) -> float:
@@ -245,13 +187,13 @@ def spectrum_data(sheet: Sheet) -> Spectrum | None:
         if freq is None or before is None:
             continue
         after = _pick(data, _AFTER)
-        f0 = _q(sheet, "design.output.frequency") or float(data.get("f0", 0.0) or 0.0)
+        f0 = typical(sheet, "design.output.frequency") or float(data.get("f0", 0.0) or 0.0)
         return Spectrum(np.abs(np.asarray(freq, dtype=float)), np.abs(np.asarray(before)),
                         None if after is None else np.abs(np.asarray(after)), f0,
-                        _q(sheet, "waveform.bridge_thd")
+                        typical(sheet, "waveform.bridge_thd")
                         or _find_thd(sheet, "bridge", "before", "unfiltered"),
-                        _q(sheet, "waveform.output_thd") or _find_thd(sheet, "output", "after", "load"),
-                        _q(sheet, "design.output.thd_target"))
+                        typical(sheet, "waveform.output_thd") or _find_thd(sheet, "output", "after", "load"),
+                        typical(sheet, "design.output.thd_target"))
     return None
 
 
@@ -350,7 +292,7 @@ def thd_lines(before: float | None, after: float | None, target: float | None,
 def spectrum_picture(sheet: Sheet, width: int = 60) -> list[str]:
     s = spectrum_data(sheet)
     if s is None:
-        target = _q(sheet, "design.output.thd_target")
+        target = typical(sheet, "design.output.thd_target")
         lines = ["No spectrum for this design yet: the waveform checks have not published one."]
         if target is not None:
             lines.append(f"Target THD after the filter: {target * 100:.1f} %.")
