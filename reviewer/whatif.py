@@ -104,14 +104,9 @@ def _mark(problem: Problem, proposals: Mapping[str, str]) -> Problem:
 
 def apply(path: str | Path, proposals: Mapping[str, str]) -> Design:
     """The design at ``path`` with ``proposals`` applied; the file is read, never written."""
-    p = Path(path)
-    try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise InputError([Problem(str(p), None, "", "no such file")]) from None
-    except (OSError, UnicodeDecodeError) as e:
-        raise InputError([Problem(str(p), None, "", f"cannot be read: {e}")]) from None
-    return apply_to_text(text, str(p), proposals)
+    from reviewer.design.loader import read_file
+
+    return apply_to_text(read_file(path), str(path), proposals)
 
 
 def proposals_of(record: Any) -> dict[str, str]:

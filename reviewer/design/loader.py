@@ -15,14 +15,18 @@ from reviewer.errors import InputError, Problem, suggest
 
 def load_design(path: str | Path) -> Design:
     """Read and validate the design file at ``path``; raise :class:`InputError` on any problem."""
+    return parse_design(read_file(path), str(path))
+
+
+def read_file(path: str | Path) -> str:
+    """The text of an input file, or an :class:`InputError` naming it and what went wrong."""
     p = Path(path)
     try:
-        text = p.read_text(encoding="utf-8")
+        return p.read_text(encoding="utf-8")
     except FileNotFoundError:
         raise InputError([Problem(str(p), None, "", "no such file")]) from None
     except (OSError, UnicodeDecodeError) as e:
         raise InputError([Problem(str(p), None, "", f"cannot be read: {e}")]) from None
-    return parse_design(text, str(p))
 
 
 def read_toml(text: str, name: str) -> dict[str, Any]:
