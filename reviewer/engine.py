@@ -72,7 +72,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
     if c.applies is not None:
         if not env.load(c.applies.names):
             return _base(c, "needs_data", needs=tuple(dict.fromkeys(env.needs)))
-        if not bool(np.broadcast_to(c.applies.eval(env.values), (n,))[0]):
+        if not bool(np.broadcast_to(c.applies.evaluate(env.values), (n,))[0]):
             return _base(c, "not_applicable")
     exprs = [e for e in (c.value, c.limit, c.fails_when, c.pass_value) if e is not None]
     mit_exprs = _mitigation_names(c)
@@ -84,8 +84,8 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
 
     value = limit = margin = None
     if c.value is not None:
-        v = np.broadcast_to(np.asarray(c.value.eval(env.values), dtype=float), (n,))
-        lim = c.limit_const if c.limit is None else c.limit.eval({**env.values, "value": v})
+        v = np.broadcast_to(np.asarray(c.value.evaluate(env.values), dtype=float), (n,))
+        lim = c.limit_const if c.limit is None else c.limit.evaluate({**env.values, "value": v})
         lim = np.broadcast_to(np.asarray(lim, dtype=float), (n,))
         m = (lim - v) if rule.at_most is not None else (v - lim)
         m = np.where(np.isnan(m), -np.inf, m)
@@ -95,7 +95,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
         env.values["value"], env.values["limit"] = v, lim
         value_typ = float(v[0])
     else:
-        f = np.broadcast_to(np.asarray(c.fails_when.eval(env.values), dtype=bool), (n,))
+        f = np.broadcast_to(np.asarray(c.fails_when.evaluate(env.values), dtype=bool), (n,))
         hits = np.flatnonzero(f)
         failed = bool(hits.size)
         idx = int(hits[0]) if failed else 0
@@ -105,7 +105,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
     pass_value = None
     if c.pass_value is not None and failed:
         try:
-            pv = c.pass_value.eval(scalars)
+            pv = c.pass_value.evaluate(scalars)
             pass_value = float(pv)
         except Exception:  # a pass value that cannot be computed here (e.g. no positive solution)
             pass_value = None
@@ -145,7 +145,7 @@ def render_text(text: str, scalars: dict[str, Any], c: Compiled, sheet: Sheet) -
             if any(n not in scalars for n in e.names):
                 shown = "—"
             else:
-                result = e.eval(scalars)
+                result = e.evaluate(scalars)
                 shown = _show(result, unit if unit is not None else _unit_of(expr, c, sheet))
         except ValueError:
             shown = "—"

@@ -330,7 +330,7 @@ class Expr:
     units: dict[tuple[int, int], str] = field(default_factory=dict)
     """Unit of each number written with one, by (line, column) in :attr:`source`."""
 
-    def eval(self, env: dict[str, Any]) -> Any:
+    def evaluate(self, env: dict[str, Any]) -> Any:
         """Evaluate with ``env`` mapping each name in :attr:`names` to a number, array or text."""
         from simpleeval import SimpleEval
 

@@ -581,7 +581,7 @@ def _sample_eval(e: Expr, local: dict[str, Type], types: dict[str, Type]) -> Non
         t = local.get(n) or types.get(n)
         env[n] = sample(t) if t is not None else sample(Type("number"))
     try:
-        e.eval(env)
+        e.evaluate(env)
     except ExprError as err:
         if "division by zero" in str(err):
             return  # a zero only in the sample values; a design's own values decide

@@ -44,7 +44,7 @@ def test_parse_quantity(text, value, unit):
     ("'48 V' == 'x'", {}, False),         # text inside quotes is left alone
 ])
 def test_units_in_expressions(text, env, expected):
-    assert compile_expr(text).eval(env) == pytest.approx(expected)
+    assert compile_expr(text).evaluate(env) == pytest.approx(expected)
 
 
 def t(**kinds):
@@ -103,6 +103,6 @@ def test_bare_numbers_fit_any_dimension():
 
 def test_runtime_refuses_flags_and_texts_in_arithmetic():
     with pytest.raises(ExprError, match="flag"):
-        compile_expr("f * 2").eval({"f": np.array([True, False])})
+        compile_expr("f * 2").evaluate({"f": np.array([True, False])})
     with pytest.raises(ExprError, match="text"):
-        compile_expr("s * 2").eval({"s": "p"})
+        compile_expr("s * 2").evaluate({"s": "p"})
