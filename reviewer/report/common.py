@@ -98,28 +98,27 @@ def decision(d, state: str | None = None) -> str:
     return text
 
 
-def decided_on(d) -> str:
-    """The numbers a decision was made on: '24 V ≤ 20 V (fail)'."""
+def _numbers(value: float | None, limit: float | None, unit: str, outcome: str) -> str:
+    """'24 V, limit 20 V (fail)': a value, its limit and the outcome, as the record keeps them."""
     parts = []
-    if d.value is not None:
-        parts.append(num(d.value, d.unit))
-    if d.limit is not None:
-        parts.append(f"limit {num(d.limit, d.unit)}")
+    if value is not None:
+        parts.append(num(value, unit))
+    if limit is not None:
+        parts.append(f"limit {num(limit, unit)}")
     text = ", ".join(parts)
-    if d.outcome:
-        text += f" ({d.outcome})" if text else d.outcome
+    if outcome:
+        text += f" ({outcome})" if text else outcome
     return text
+
+
+def decided_on(d) -> str:
+    """The numbers a decision was made on: '24 V, limit 20 V (fail)'."""
+    return _numbers(d.value, d.limit, d.unit, d.outcome)
 
 
 def now_on(f) -> str:
     """The same numbers for the current finding, for side-by-side display."""
-    parts = []
-    if f.value is not None:
-        parts.append(num(f.value, f.unit))
-    if f.limit is not None:
-        parts.append(f"limit {num(f.limit, f.unit)}")
-    text = ", ".join(parts)
-    return f"{text} ({f.outcome})" if text else f.outcome
+    return _numbers(f.value, f.limit, f.unit, f.outcome)
 
 
 def record_rows(r) -> list[tuple[str, object, object, str]]:
