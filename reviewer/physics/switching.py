@@ -7,18 +7,26 @@ All voltages here are magnitudes in the enhancing direction (see
 drive stage output + series gate resistor + internal gate resistance
 (:func:`gate_loop_resistance`).
 
-The gate-charge method (a piecewise model of an inductive, clamped switching transition):
+Inductive (clamped) switching has four intervals, named apart because they matter differently
+(t_d are delays, the other four move current or voltage):
 
-- t_d(on) = R_on · C_iss · ln(V_dr / (V_dr − V_th))   gate charges from the off level to V_th
-- t_r     ≈ Q_gd · R_on / (V_dr − V_pl)              drain voltage falls along the plateau
-- t_d(off) = R_off · C_iss · ln(V_dr / V_pl)          gate discharges from V_dr to the plateau
-- t_f     ≈ Q_gd · R_off / V_pl                       drain voltage rises along the plateau
-- tail     = R_off · C_iss · ln(V_pl / V_th)          current falls while the gate goes to V_th
+- turn-on:  t_d(on) = R_on · C_in · ln((V_dr − V_off)/(V_dr − V_th))   gate to threshold
+            t_ri    = R_on · C_in · ln((V_dr − V_th)/(V_dr − V_pl))    current rises
+            t_fv    ≈ Q_gd · R_on / (V_dr − V_pl)                      voltage falls (plateau)
+- turn-off: t_d(off) = R_off · C_in · ln((V_dr − V_off)/(V_pl − V_off)) gate to plateau
+            t_rv    ≈ Q_gd · R_off / (V_pl − V_off)                    voltage rises (plateau)
+            t_fi    = R_off · C_in · ln((V_pl − V_off)/(V_th − V_off))  current falls
 
-and a current-limited stage moves the same charges at its limit, t = Q / I. A stage with both
-an output resistance and a current limit takes the slower of the two estimates for each
-interval: the true time lies between the larger of the two and their sum, because the current
-it delivers is the smaller of V/R and I_limit at every instant.
+``rise_time`` is t_fv and ``fall_time`` is t_rv (the drain-voltage transitions, named for the
+gate edge they belong to); ``current_fall_tail`` is t_fi. The turn-off overshoot L·di/dt belongs
+to t_fi, never to t_rv. Where the part's charge data are given, C_in below the plateau is
+Q_gs/V_pl and above it (Q_g − Q_gs − Q_gd)/(V_Qg − V_pl) (:func:`charge_capacitances`): C_iss
+is a small-signal figure at one drain voltage.
+
+A stage with both an output resistance and a current limit delivers min(I_lim, ΔV/R) at every
+instant; :func:`stage_time` integrates that exactly (linear while the limit holds, RC after).
+The current edges are also limited by the common-source inductance L_s shared by the gate loop
+and the power path (:func:`current_edge_time`).
 
 Every function accepts floats or numpy arrays and returns a float for scalar input. A
 transition that never completes (drive below threshold or plateau) takes infinite time.
@@ -227,51 +235,193 @@ def current_fall_tail_current(ciss, v_plateau, vth, i_sink):
     return _out(c * np.maximum(vp - vt, 0.0) / i)
 
 
+def stage_time(c, v_from, v_to, v_cross, r=None, i_limit=None):
+    """Time for a gate node of capacitance ``c`` to go from ``v_from`` to ``v_cross``, driven
+    towards ``v_to`` by a stage with loop resistance ``r`` and current limit ``i_limit`` [s].
+
+    The stage delivers i = min(I_lim, |V_to − v|/R) at every instant. While the headroom
+    |V_to − v| exceeds I_lim·R the limit holds and v moves linearly (t = C·Δv/I_lim); from there
+    the node is an RC, t = R·C·ln(headroom at the boundary / headroom at ``v_cross``). With
+    ``r`` None the stage is a pure current source; with ``i_limit`` None a pure RC
+    (:func:`rc_crossing_time`). Zero when the node starts at or past ``v_cross``; infinite when
+    ``v_cross`` is never reached.
+
+    Parameters
+    ----------
+    c : node capacitance (effective input capacitance of the interval) [F]
+    v_from, v_to, v_cross : start, drive target and crossing voltages [V]
+    r : whole gate-loop resistance, or None [Ω]
+    i_limit : stage current limit, or None [A]
+
+    References
+    ----------
+    Piecewise solution of C·dv/dt = min(I_lim, (V_to − v)/R): a current-limited ramp joined to
+    the first-order step response (Horowitz & Hill, *The Art of Electronics*, 3rd ed., §1.4.2).
+    """
+    c, v0, v1, vx = (_a(x) for x in (c, v_from, v_to, v_cross))
+    rr = _a(0.0 if r is None else r)
+    ii = _a(np.inf if i_limit is None else i_limit)
+    s = np.where(v1 >= v0, 1.0, -1.0)
+    d0 = s * (v1 - v0)          # headroom at the start
+    dx = s * (v1 - vx)          # headroom at the crossing
+    db = ii * rr                # headroom below which the RC form holds
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        lin = np.maximum(d0 - np.maximum(dx, db), 0.0)
+        t1 = np.where(lin > 0, c * lin / ii, 0.0)
+        top = np.minimum(d0, db)
+        t2 = np.where((dx < top) & (rr > 0), rr * c * np.log(top / np.where(dx > 0, dx, 1.0)), 0.0)
+        t = t1 + t2
+    t = np.where(dx >= d0, 0.0, np.where(dx <= 0, np.inf, t))
+    return _out(t)
+
+
+def plateau_time(q, v_head, r=None, i_limit=None):
+    """Time to move charge ``q`` at a constant gate voltage with ``v_head`` across the loop [s].
+
+    t = Q / min(I_lim, V_head/R) = Q · max(1/I_lim, R/V_head): the plateau intervals t_fv (turn-on,
+    V_head = V_dr − V_pl) and t_rv (turn-off, V_head = V_pl − V_off). Infinite when the headroom
+    is not positive.
+
+    Parameters
+    ----------
+    q : gate-drain charge Q_gd [C]
+    v_head : voltage driving the gate current along the plateau [V]
+    r : whole gate-loop resistance, or None [Ω]
+    i_limit : stage current limit, or None [A]
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §22-4 (constant gate current along
+    the Miller plateau).
+    """
+    q, vh = _a(q), _a(v_head)
+    rr = _a(0.0 if r is None else r)
+    ii = _a(np.inf if i_limit is None else i_limit)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        per = np.maximum(1.0 / ii, rr / np.where(vh > 0, vh, 1.0))
+    return _out(np.where(vh > 0, q * per, np.inf))
+
+
+def current_rise_time(r_on, ciss, v_drive, vth, v_plateau):
+    """Current rise at turn-on, t_ri = R_on · C_in · ln((V_dr − V_th)/(V_dr − V_pl)) [s].
+
+    The gate charges from the threshold to the plateau while the drain current rises to the
+    load current (the drain voltage is still clamped at the bus).
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §22-4; Baliga 2008 §6.10.
+    """
+    return rc_crossing_time(r_on, ciss, vth, v_drive, v_plateau)
+
+
+def current_edge_time(i_switched, v_head, l_source, r_loop, ciss, gfs):
+    """Current edge bounded by the common-source inductance, t = I·(L_s + R·C_in/g_fs)/V_head [s].
+
+    The source inductance L_s shared by the gate loop and the power path feeds L_s·di/dt back
+    against the gate: |di/dt| ≈ V_head/(L_s + R·C_in/g_fs), with V_head = V_pl − V_off at turn-off
+    (V_dr − V_pl at turn-on). With L_s = 0 this is the linearised gate-charge interval.
+
+    Parameters
+    ----------
+    i_switched : current the edge moves [A]
+    v_head : gate headroom driving the edge [V]
+    l_source : common-source inductance [H]
+    r_loop : gate-loop resistance [Ω]
+    ciss : input capacitance [F]
+    gfs : forward transconductance [S]
+
+    References
+    ----------
+    Source-inductance feedback on the gate during the current transition (from memory: power
+    MOSFET switching analyses in Baliga, *Fundamentals of Power Semiconductor Devices*, 2008,
+    §6.10, and in gate-drive application literature).
+    """
+    i, vh, ls, r, c, g = (_a(x) for x in (i_switched, v_head, l_source, r_loop, ciss, gfs))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        t = np.abs(i) * (ls + r * c / g) / np.where(vh > 0, vh, 1.0)
+    return _out(np.where(vh > 0, t, np.inf))
+
+
+def charge_capacitances(ciss, qg=None, qgs=None, qgd=None, v_plateau=None, v_qg=None):
+    """Effective input capacitance below and above the plateau from the gate-charge data [F].
+
+    C_below = Q_gs / V_pl (charge from 0 V to the plateau); C_above = (Q_g − Q_gs − Q_gd) /
+    (V_Qg − V_pl) (charge from the plateau's end to V_Qg, the V_GS at which Q_g is given).
+    Either falls back to C_iss where its data are missing or give no positive figure.
+
+    Returns
+    -------
+    (c_below, c_above) [F]
+
+    References
+    ----------
+    Gate-charge curve Q_G(V_GS) in three segments; Mohan, Undeland & Robbins, 3rd ed., §22-4;
+    Baliga 2008 §6.10.
+    """
+    c = _a(ciss)
+    if qgs is None or v_plateau is None:
+        below = c
+    else:
+        vp = _a(v_plateau)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            below = np.where(vp > 0, _a(qgs) / np.where(vp > 0, vp, 1.0), c)
+    if qg is None or qgs is None or qgd is None or v_qg is None or v_plateau is None:
+        above = c
+    else:
+        q_top = _a(qg) - _a(qgs) - _a(qgd)
+        dv = _a(v_qg) - _a(v_plateau)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            above = np.where((q_top > 0) & (dv > 0), q_top / np.where(dv > 0, dv, 1.0), c)
+    return _out(below), _out(above)
+
+
 @dataclass(frozen=True)
 class SwitchingTimes:
-    """The intervals of one switch's turn-on and turn-off [s]."""
+    """The intervals of one switch's turn-on and turn-off [s].
+
+    ``tr`` is the voltage fall t_fv at turn-on, ``tf`` the voltage rise t_rv at turn-off,
+    ``tail`` the current fall t_fi and ``t_ri`` the current rise (see the module text).
+    """
 
     td_on: float
     tr: float
     td_off: float
     tf: float
     tail: float
+    t_ri: float = 0.0
 
     @property
     def turn_on(self):
-        """t_d(on) + t_r [s]."""
-        return self.td_on + self.tr
+        """t_d(on) + t_ri + t_fv: until the drain voltage has fallen [s]."""
+        return self.td_on + self.t_ri + self.tr
 
     @property
     def turn_off(self):
-        """t_d(off) + t_f: the textbook turn-off time [s]."""
+        """t_d(off) + t_rv: the drain-voltage part of turn-off [s]."""
         return self.td_off + self.tf
 
     @property
     def turn_off_to_cutoff(self):
-        """t_d(off) + t_f + the current-fall tail: until the gate is below threshold [s]."""
+        """t_d(off) + t_rv + t_fi: until the gate is below threshold [s]."""
         return self.td_off + self.tf + self.tail
 
-
-def _slower(a, b):
-    if a is None:
-        return b
-    if b is None:
-        return a
-    return _out(np.maximum(_a(a), _a(b)))
+    @property
+    def overlap_sum(self):
+        """t_ri + t_fv + t_rv + t_fi: the four intervals with voltage and current both present [s]."""
+        return self.t_ri + self.tr + self.tf + self.tail
 
 
 def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None,
-                    i_source=None, i_sink=None, v_off=0.0) -> SwitchingTimes:
+                    i_source=None, i_sink=None, v_off=0.0, c_above=None) -> SwitchingTimes:
     """All intervals of a switch, resistive, current-limited or both.
 
     Each direction needs a loop resistance, a current limit or both; with both, each interval
-    is the slower of the RC and the Q/I estimate (a lower bound of the true time, which is at
-    most their sum).
+    is the exact piecewise time of :func:`stage_time` / :func:`plateau_time`.
 
     Parameters
     ----------
-    ciss : input capacitance [F]
+    ciss : input capacitance below the plateau (C_iss, or Q_gs/V_pl) [F]
     qgd : gate-drain charge [C]
     v_drive : on-level magnitude [V]
     vth : threshold magnitude [V]
@@ -279,6 +429,7 @@ def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None
     r_on, r_off : gate loop resistance turning on / off [Ω]
     i_source, i_sink : stage current limit turning on / off [A]
     v_off : off-level [V]
+    c_above : input capacitance above the plateau [F]; None: ``ciss``
 
     References
     ----------
@@ -288,17 +439,14 @@ def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None
         raise ValueError("turn-on needs a loop resistance or a source current")
     if r_off is None and i_sink is None:
         raise ValueError("turn-off needs a loop resistance or a sink current")
-    td_on = _slower(None if r_on is None else turn_on_delay(r_on, ciss, v_drive, vth, v_off),
-                    None if i_source is None else turn_on_delay_current(ciss, vth, i_source, v_off))
-    tr = _slower(None if r_on is None else rise_time(qgd, r_on, v_drive, v_plateau),
-                 None if i_source is None else plateau_time_current(qgd, i_source))
-    td_off = _slower(None if r_off is None else turn_off_delay(r_off, ciss, v_drive, v_plateau, v_off),
-                     None if i_sink is None else turn_off_delay_current(ciss, v_drive, v_plateau, i_sink))
-    tf = _slower(None if r_off is None else fall_time(qgd, r_off, v_plateau, v_off),
-                 None if i_sink is None else plateau_time_current(qgd, i_sink))
-    tail = _slower(None if r_off is None else current_fall_tail(r_off, ciss, v_plateau, vth, v_off),
-                   None if i_sink is None else current_fall_tail_current(ciss, v_plateau, vth, i_sink))
-    return SwitchingTimes(td_on, tr, td_off, tf, tail)
+    c_hi = ciss if c_above is None else c_above
+    td_on = stage_time(ciss, v_off, v_drive, vth, r_on, i_source)
+    t_ri = stage_time(ciss, vth, v_drive, v_plateau, r_on, i_source)
+    tr = plateau_time(qgd, _a(v_drive) - _a(v_plateau), r_on, i_source)
+    td_off = stage_time(c_hi, v_drive, v_off, v_plateau, r_off, i_sink)
+    tf = plateau_time(qgd, _a(v_plateau) - _a(v_off), r_off, i_sink)
+    tail = stage_time(ciss, v_plateau, v_off, vth, r_off, i_sink)
+    return SwitchingTimes(td_on, tr, td_off, tf, tail, t_ri)
 
 
 def pull_resistor_turn_off(r_pull, ciss, qgd, v_drive, v_plateau, vth=None, r_internal=0.0):

@@ -79,13 +79,14 @@ def test_current_limited_forms_by_hand():
     assert sw.current_fall_tail_current(CISS, VPL, VTH, 0.5) == pytest.approx(8e-9)
 
 
-def test_stage_with_resistance_and_current_limit_takes_the_slower():
+def test_stage_with_resistance_and_current_limit_is_exact_piecewise():
     t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0, r_off=10.0,
                            i_source=0.1, i_sink=2.0)
-    # Turn-on: the 0.1 A limit dominates: 2 nF·3 V/0.1 A = 60 ns > 5.75 ns.
+    # Turn-on: 0.1 A · 10 Ω = 1 V < 12 V − 3 V headroom: the limit holds all the way to V_th:
+    # 2 nF·3 V/0.1 A = 60 ns; plateau Q_gd/min(0.1 A, 7 V/10 Ω) = 10 nC/0.1 A = 100 ns.
     assert t.td_on == pytest.approx(60e-9)
     assert t.tr == pytest.approx(100e-9)
-    # Turn-off: 2 A is generous, the 10 Ω RC form dominates: 17.509 ns and 20 ns.
+    # Turn-off: 2 A · 10 Ω = 20 V > 12 V: never current-limited, the pure RC forms hold.
     assert t.td_off == pytest.approx(17.5094e-9, rel=1e-4)
     assert t.tf == pytest.approx(20e-9)
     assert t.turn_off == pytest.approx(t.td_off + t.tf)
@@ -94,22 +95,24 @@ def test_stage_with_resistance_and_current_limit_takes_the_slower():
         sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0)
 
 
-def test_slower_of_two_bounds_the_true_time():
-    # True charging current min(I_lim, (V − v)/R), integrated: max(t_RC, t_I) ≤ t ≤ t_RC + t_I.
+def test_stage_time_matches_solve_ivp_where_the_limit_lets_go():
+    # True charging current min(I_lim, (V − v)/R): linear until V − v = I·R = 7.5 V (v = 4.5 V),
+    # RC after. Crossing 3 V (all linear) and 8 V (linear then RC).
     r, i_lim = 50.0, 0.15
 
     def f(t, v):
         return [min(i_lim, (VDR - v[0]) / r) / CISS]
 
-    ev = lambda t, v: v[0] - VTH  # noqa: E731
-    ev.terminal = True
-    sol = solve_ivp(f, (0, 1e-6), [0.0], events=ev, rtol=1e-10, atol=1e-12, max_step=1e-10)
-    t_true = sol.t_events[0][0]
-    t_rc = sw.turn_on_delay(r, CISS, VDR, VTH)
-    t_i = sw.turn_on_delay_current(CISS, VTH, i_lim)
-    t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=r, r_off=r, i_source=i_lim).td_on
-    assert t == max(t_rc, t_i)
-    assert t <= t_true * (1 + 1e-6) and t_true <= t_rc + t_i
+    for vx in (VTH, 8.0):
+        ev = lambda t, v, vx=vx: v[0] - vx  # noqa: E731
+        ev.terminal = True
+        sol = solve_ivp(f, (0, 1e-5), [0.0], events=ev, rtol=1e-10, atol=1e-12, max_step=1e-10)
+        assert sw.stage_time(CISS, 0.0, VDR, vx, r, i_lim) == pytest.approx(sol.t_events[0][0], rel=1e-3)
+    # by hand: 2 nF · 4.5 V / 0.15 A = 60 ns, then 100 ns · ln(7.5/4) = 62.86 ns
+    assert sw.stage_time(CISS, 0.0, VDR, 8.0, r, i_lim) == pytest.approx(60e-9 + 100e-9 * math.log(7.5 / 4), rel=1e-9)
+    # array input, one element per corner
+    out = sw.stage_time(CISS, 0.0, VDR, np.array([VTH, 8.0, 12.0]), r, i_lim)
+    assert out.shape == (3,) and out[2] == math.inf
 
 
 def test_pull_resistor_turn_off_takes_tens_of_microseconds():
@@ -234,3 +237,97 @@ def test_narrow_pulse_thresholds():
     # Unipolar: the widest output pulse is M/(2 f_c) = 22.5 µs; a minimum that long cuts them all.
     assert sw.narrow_pulse_fraction_unipolar(m, fc, m / (2 * fc)) == 1.0
     assert sw.narrow_pulse_fraction_unipolar(m, fc, 0.0) == 0.0
+
+
+# ------------------------------------------------------------- the four inductive intervals
+
+def _gate_network(c_lo, c_hi, qgd, v_off, v_pl, v_dr, r, i_lim, turn_on):
+    """Integrate the gate charge q of the textbook gate model with scipy: below the plateau
+    v = V_off + q/C_lo, along it v = V_pl while Q_gd moves, above it v = V_pl + (q − q_b)/C_hi;
+    the stage delivers min(I_lim, ΔV/R). Returns the times at which the gate reaches V_th and
+    the plateau's two ends (turn-on) or the plateau's two ends and V_th (turn-off)."""
+    q_a = c_lo * (v_pl - v_off)
+    q_b = q_a + qgd
+    q_top = q_b + c_hi * (v_dr - v_pl)
+
+    def v_of(q):
+        if q < q_a:
+            return v_off + q / c_lo
+        if q < q_b:
+            return v_pl
+        return v_pl + (q - q_b) / c_hi
+
+    def f(t, y):
+        v = v_of(y[0])
+        i = (v_dr - v) / r if turn_on else (v - v_off) / r
+        return [(1 if turn_on else -1) * min(i_lim, i)]
+
+    def at(level, last=False):
+        e = lambda t, y: y[0] - level  # noqa: E731
+        e.terminal = last
+        return e
+
+    q_th = c_lo * (VTH - v_off)
+    marks = [q_th, q_a, q_b] if turn_on else [q_b, q_a, q_th]
+    y0 = 0.0 if turn_on else q_top
+    sol = solve_ivp(f, (0, 2e-6), [y0], events=[at(m, k == 2) for k, m in enumerate(marks)],
+                    rtol=1e-10, atol=1e-15, max_step=1e-10)
+    return [ev[0] for ev in sol.t_events]
+
+
+@pytest.mark.parametrize("r, i_lim, v_off", [(10.0, math.inf, 0.0), (10.0, 0.4, 0.0),
+                                             (25.0, 0.3, -4.0), (4.0, 1.0, 0.0)])
+def test_four_intervals_against_solve_ivp_on_the_gate_network(r, i_lim, v_off):
+    # Gate RC network with a constant plateau, C_iss 2 nF below and 3 nF above the plateau
+    # (charge-data form), Q_gd 10 nC, V_th 3 V, V_pl 5 V, 0/−4 → 12 V: each interval within 1 %.
+    c_hi = 3e-9
+    lim = None if math.isinf(i_lim) else i_lim
+    t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=r, r_off=r, i_source=lim, i_sink=lim,
+                           v_off=v_off, c_above=c_hi)
+    on = _gate_network(CISS, c_hi, QGD, v_off, VPL, VDR, r, i_lim, True)
+    off = _gate_network(CISS, c_hi, QGD, v_off, VPL, VDR, r, i_lim, False)
+    assert t.td_on == pytest.approx(on[0], rel=0.01)
+    assert t.t_ri == pytest.approx(on[1] - on[0], rel=0.01)
+    assert t.tr == pytest.approx(on[2] - on[1], rel=0.01)          # t_fv
+    assert t.td_off == pytest.approx(off[0], rel=0.01)
+    assert t.tf == pytest.approx(off[1] - off[0], rel=0.01)        # t_rv
+    assert t.tail == pytest.approx(off[2] - off[1], rel=0.01)      # t_fi
+
+
+def test_four_intervals_by_the_textbook_formulas():
+    # The inductive-switching sequence of Mohan, Undeland & Robbins, Power Electronics, 3rd ed.,
+    # Wiley 2003, ch. 22 (MOSFET switching characteristics; section number from memory; the
+    # same four-interval analysis is in Rashid (ed.), Power Electronics Handbook, ch. 6 "The
+    # Power MOSFET", equivalent circuits t0..t4, from memory). No printed worked example was at
+    # hand to copy numbers from, so the figures below are a hand calculation with the book's
+    # interval formulas for R_G = 10 Ω, C_iss = 2 nF, Q_gd = 10 nC, V_GG = 12 V, V_th = 3 V,
+    # V_pl = 5 V:
+    #   t_d(on) = 20 ns · ln(12/9)  = 5.7536 ns     t_ri = 20 ns · ln(9/7) = 5.0263 ns
+    #   t_fv    = 10 nC·10 Ω / 7 V  = 14.286 ns     t_d(off) = 20 ns · ln(12/5) = 17.509 ns
+    #   t_rv    = 10 nC·10 Ω / 5 V  = 20 ns         t_fi = 20 ns · ln(5/3) = 10.217 ns
+    t = sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0, r_off=10.0)
+    got = (t.td_on, t.t_ri, t.tr, t.td_off, t.tf, t.tail)
+    want = (5.7536e-9, 5.0263e-9, 14.286e-9, 17.509e-9, 20e-9, 10.217e-9)
+    for g, w in zip(got, want):
+        assert g == pytest.approx(w, rel=1e-4)
+    assert sw.current_rise_time(10.0, CISS, VDR, VTH, VPL) == pytest.approx(5.0263e-9, rel=1e-4)
+    # the switching-loss overlap is the sum of the four voltage-and-current intervals
+    assert t.overlap_sum == pytest.approx(5.0263e-9 + 14.286e-9 + 20e-9 + 10.217e-9, rel=1e-4)
+
+
+def test_current_edge_bounded_by_common_source_inductance():
+    # |di/dt| = V_head/(L_s + R·C/g_fs): 10 A, 2 V head, 5 nH, 10 Ω, 2 nF, 50 S:
+    # t = 10 A·(5 nH + 0.4 nH)/2 V = 27 ns (hand calculation)
+    assert sw.current_edge_time(10.0, 2.0, 5e-9, 10.0, CISS, 50.0) == pytest.approx(27e-9)
+    # L_s = 0: the linearised gate-charge t_fi, R·C·(V_pl − V_th)/(V_pl − V_off), here with
+    # I = g_fs·(V_pl − V_th) = 50 S · 2 V = 100 A: 20 ns · 2/5 = 8 ns, close to 20 ns·ln(5/3)
+    assert sw.current_edge_time(100.0, 5.0, 0.0, 10.0, CISS, 50.0) == pytest.approx(8e-9)
+    assert sw.current_edge_time(10.0, 0.0, 5e-9, 10.0, CISS, 50.0) == math.inf
+
+
+def test_charge_capacitances():
+    # Q_gs 12 nC to a 4 V plateau: 3 nF below; (40 − 12 − 10) nC over 10 − 4 V: 3 nF above
+    lo, hi = sw.charge_capacitances(2.5e-9, 40e-9, 12e-9, 10e-9, 4.0, 10.0)
+    assert lo == pytest.approx(3e-9) and hi == pytest.approx(3e-9)
+    # missing data: C_iss both ways
+    assert sw.charge_capacitances(2.5e-9) == (2.5e-9, 2.5e-9)
