@@ -32,11 +32,13 @@ def expected_tj(rth: float, ta: float = 25.0) -> float:
     # scaled by the harmonics' extra heating (the conduction current's true RMS).
     i_pk = 5.0 * math.sqrt(2)
     i_rms = i_pk / 2 * harmonic_factor()
-    i_sw = 2 * i_pk / math.pi                      # mean |i| at the edges
-    tr = 10e-9 * 10 / (12 - 5)                     # Q_gd·R/(V_dr − V_pl)
-    tf = 10e-9 * 10 / 5                            # Q_gd·R/V_pl
-    p_sw = 0.5 * 12 * i_sw * (tr + tf) * 20e3 + 0.5 * 300e-12 * 12**2 * 20e3
-    p_d = 0.8 * (i_sw / 2) * 2 * 500e-9 * 20e3     # diode carries the current at half the edges
+    i_sw = i_pk / math.pi                          # per device: hard edges in its own half cycle
+    t_ri = 20e-9 * math.log((12 - 3) / (12 - 5))   # R·C_iss·ln((V_dr − V_th)/(V_dr − V_pl))
+    t_fv = 10e-9 * 10 / (12 - 5)                   # Q_gd·R/(V_dr − V_pl)
+    t_rv = 10e-9 * 10 / 5                          # Q_gd·R/V_pl
+    t_fi = 20e-9 * math.log(5 / 3)                 # R·C_iss·ln(V_pl/V_th)
+    p_sw = 0.5 * 12 * i_sw * (t_ri + t_fv + t_rv + t_fi) * 20e3 + 0.5 * 300e-12 * 12**2 * 20e3
+    p_d = 0.8 * i_sw * 2 * 500e-9 * 20e3           # its diode: I_pk/π over both dead intervals
     b = math.log(1.7) / 100                        # R(T) = R25·1.7^((T − 25)/100)
 
     def f(t):

@@ -18,6 +18,8 @@ QUANTITIES = declare(
     ("gate.{side}.pin_current", "A", "Current a controller pin drives the gate with"),
     ("gate.{side}.pin_edge_time", "s", "Gate edge time of a controller pin, Q_g / I_pin"),
     ("gate.{side}.drive_power", "W", "Gate-drive power Q_g · ΔV_gate · f_sw, all paralleled devices"),
+    ("gate.{side}.vth_hot", "V", "Lowest gate threshold at T_j,max: the part's figure, or the "
+     "estimate −5 mV/°C from V_th,min, never below half of it"),
 )
 
 PIN_CURRENT_DEFAULT = 20e-3
@@ -80,6 +82,17 @@ def derive(ctx: Ctx) -> None:
                     v_across = max(v_across, abs(g - rail))
             ctx.publish(f"gate.{side}.pull_voltage", v_across)
             ctx.publish(f"gate.{side}.pull_power", gp.resistor_power(v_across, pull))
+
+        with ctx.section(f"gate.{side}.vth_hot"):
+            hot = ctx.v(f"{sw}.vth_hot")
+            if hot is not None:
+                ctx.publish(f"gate.{side}.vth_hot", hot, "the part's threshold at T_j,max")
+            else:
+                vth = ctx.need(f"{sw}.vth")
+                est = gp.vth_hot_estimate(vth, ctx.v(f"{sw}.tj_max"))
+                ctx.publish(f"gate.{side}.vth_hot", est,
+                            "estimate (memory): −5 mV/°C from 25 °C, floor at half of V_th; "
+                            f"give switch.{side}.vth_hot")
 
         n = ctx.v(f"{sw}.count")
         if ctx.v(f"{dr}.kind") == "controller_pin":

@@ -6,20 +6,26 @@ from reviewer.physics import grounding
 from reviewer.quantities import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
-    ("grounding.edge_time", "s", "Fastest current edge of the bridge (shortest rise or fall)"),
+    ("grounding.edge_time", "s", "Fastest current edge of the bridge (shortest current rise or fall, the same edges as the turn-off overshoot)"),
     ("grounding.bounce", "V", "Ground bounce on the shared return, L_common · di/dt"),
     ("grounding.common_inductance_max", "H", "Largest shared ground inductance within the noise margin"),
 )
 
 
 def _edge(ctx: Ctx) -> float:
-    # The current itself changes in the turn-off tail (plateau to threshold); without it, the
-    # drain-voltage transitions bound the edge from above.
-    times = [ctx.q(f"switching.{s}.tail") for s in SIDES if ctx.has(f"switching.{s}.tail")]
-    times = times or [ctx.q(f"switching.{s}.{k}") for s in SIDES for k in ("rise_time", "fall_time")
-                      if ctx.has(f"switching.{s}.{k}")]
-    if not times:
-        raise NeedsData("switch.high.qgd", "switch.low.qgd")
+    # One definition of the current edge, shared with the turn-off overshoot: the current-rise
+    # and current-fall intervals the switching module publishes (datasheet t_f, or the gate-charge
+    # intervals bounded by the common-source inductance); the fastest of the bridge.
+    times, needs = [], []
+    for s in SIDES:
+        for k in ("current_rise", "current_fall"):
+            name = f"switching.{s}.{k}"
+            if ctx.has(name):
+                times.append(ctx.q(name))
+            else:
+                needs.extend(ctx.missing.get(name, ()))
+    if needs or not times:
+        raise NeedsData(*(needs or ("switch.high.qgd", "switch.low.qgd")))
     return min(times)
 
 

@@ -3,11 +3,19 @@
 from __future__ import annotations
 
 from reviewer.physics import gate, grounding
-from reviewer.quantities import SIDES, Ctx, declare
+from reviewer.physics import thermal as tp
+from reviewer.quantities import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
-    ("stress.{side}.overshoot", "V", "Drain-source overshoot at turn-off, L_loop · di/dt"),
+    ("stress.{side}.overshoot", "V", "Drain-source overshoot at turn-off, L_loop · di/dt over the "
+     "current-fall interval"),
     ("stress.{side}.vds_peak", "V", "Peak drain-source voltage: highest bus plus overshoot"),
+    ("stress.{side}.avalanche_energy", "J", "Energy the part absorbs in avalanche per edge where "
+     "the peak exceeds its rating, ½·L·I²·V_BR/(V_BR − V_bus)"),
+    ("stress.{side}.turn_on_peak", "A", "Peak drain current at turn-on per device: load current "
+     "plus the other switch's diode recovery current"),
+    ("stress.node_undershoot", "V", "Switch-node excursion below the low rail when the high side "
+     "turns off: diode drop plus L_loop · di/dt (magnitude)"),
     ("stress.{side}.vgs_on", "V", "Gate-source voltage when on, at the highest bus (enhancement direction)"),
     ("stress.{side}.vgs_off", "V", "Gate-source voltage when off, at the highest bus (enhancement direction, the most reverse)"),
     ("stress.{side}.vgs_peak", "V", "Largest gate-source voltage magnitude, after any zener clamp"),
@@ -48,13 +56,42 @@ def derive(ctx: Ctx) -> None:
         ctx.publish(f"stress.{side}.vgs_off", min(enh_off))
         ctx.publish(f"stress.{side}.vgs_peak", max(abs(v) for v in (*on, *off)))
 
-        loop = ctx.v("grounding.loop_inductance")
-        fall = f"switching.{side}.fall_time"
-        if loop is not None and ctx.has(fall) and ctx.has("op.load_current_peak"):
-            dv = grounding.switching_overshoot(loop, ctx.q("op.load_current_peak"), ctx.q(fall))
-            ctx.publish(f"stress.{side}.overshoot", float(dv))
-            ctx.publish(f"stress.{side}.vds_peak", v_max + float(dv))
-        else:
-            ctx.publish(f"stress.{side}.vds_peak", v_max,
-                        "no overshoot estimate: give grounding.loop_inductance (and the "
-                        "switching times must be computable)")
+        with ctx.section(f"stress.{side}.overshoot", f"stress.{side}.vds_peak",
+                         f"stress.{side}.avalanche_energy"):
+            loop = ctx.v("grounding.loop_inductance")
+            if loop is None:
+                ctx.publish(f"stress.{side}.vds_peak", v_max,
+                            "no overshoot estimate: give grounding.loop_inductance")
+            else:
+                i_pk = ctx.q("op.load_current_peak")
+                # the overshoot belongs to the current-fall interval (never the voltage rise)
+                dv = float(grounding.switching_overshoot(loop, i_pk,
+                                                         ctx.q(f"switching.{side}.current_fall")))
+                peak = v_max + dv
+                ctx.publish(f"stress.{side}.overshoot", dv)
+                ctx.publish(f"stress.{side}.vds_peak", peak)
+                rating = ctx.v(f"switch.{side}.vds_rating")
+                ctx.publish(f"stress.{side}.avalanche_energy",
+                            float(grounding.avalanche_energy(loop, i_pk, rating, v_max, peak)),
+                            "the loop's energy clamped at the rating (unclamped-inductive form)")
+        with ctx.section(f"stress.{side}.turn_on_peak"):
+            n = int(ctx.v(f"switch.{side}.count"))
+            i_dev = float(tp.device_current(ctx.q("op.load_current_peak"), n))
+            other = "low" if side == "high" else "high"
+            qrr, trr = ctx.v(f"switch.{other}.diode_qrr"), ctx.v(f"switch.{other}.diode_trr")
+            if qrr is not None and trr is not None:
+                i_rr = float(tp.recovery_peak_current(qrr, trr)) / n
+                ctx.publish(f"stress.{side}.turn_on_peak", i_dev + i_rr,
+                            "with the other switch's diode recovery current, 2·Q_rr/t_rr")
+            else:
+                raise NeedsData(f"switch.{other}.diode_qrr", f"switch.{other}.diode_trr")
+
+    if ctx.v("drive.high.kind") == "bootstrap_driver":
+        with ctx.section("stress.node_undershoot"):
+            loop = ctx.need("grounding.loop_inductance")
+            vf = ctx.need("switch.low.diode_vf")
+            di = float(grounding.current_slope(ctx.q("op.load_current_peak"),
+                                               ctx.q("switching.high.current_fall")))
+            ctx.publish("stress.node_undershoot", vf + float(grounding.inductive_voltage(loop, di)),
+                        "the whole commutation-loop inductance taken as between the low-side "
+                        "source and the driver's ground (conservative)")

@@ -3,6 +3,12 @@
 Paralleled devices driven from one stage: their input capacitance and gate charges add, their
 internal gate resistances (and their own series gate resistors, when each has one) appear in
 parallel.
+
+Two sets of times are computed where the internal gate resistance is not given: the slow one
+(3 Ω assumed) for turn-off, dead time and losses, the fast one (0 Ω) for edge speeds (current
+edges, dv/dt), each the conservative end for the checks that use it. Turn-off for the dead time
+is taken at the current that makes it longest: at low current the plateau nears V_th and both
+the delay and the plateau interval grow.
 """
 
 from __future__ import annotations
@@ -19,21 +25,37 @@ from reviewer.units import render
 OTHER = {"high": "low", "low": "high"}
 SPWM = ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted")
 
-_PER_SWITCH = ("v_drive", "v_off", "v_plateau", "td_on", "rise_time", "td_off", "fall_time",
-               "tail", "turn_on_time", "turn_off_time", "pull_only", "off_seconds_per_ohm",
-               "off_charge", "off_r_fixed", "hold_resistance")
+_PER_SWITCH = ("v_drive", "v_off", "v_plateau", "td_on", "current_rise_gc", "rise_time", "td_off",
+               "fall_time", "tail", "turn_on_time", "turn_off_time", "pull_only",
+               "off_seconds_per_ohm", "off_charge", "off_r_fixed", "hold_resistance",
+               "rg_internal_used")
+
+RG_INTERNAL_SLOW = 3.0
+"""Internal gate resistance assumed for turn-off and dead-time figures when none is given [Ω]:
+towards the high end of small power MOSFETs (common practice; parts range about 0.5–5 Ω)."""
+
+RG_INTERNAL_FAST = 0.0
+"""Internal gate resistance assumed for edge speeds when none is given [Ω]: the fastest case."""
 
 QUANTITIES = declare(
     ("switching.{side}.v_drive", "V", "Gate-source on level used for the switching times (highest bus)"),
     ("switching.{side}.v_off", "V", "Gate-source off level (enhancement direction)"),
     ("switching.{side}.v_plateau", "V", "Miller plateau, given or V_th + I_D/g_fs at the peak load current"),
     ("switching.{side}.td_on", "s", "Turn-on delay t_d(on)"),
-    ("switching.{side}.rise_time", "s", "Drain-voltage transition at turn-on along the plateau, t_r"),
+    ("switching.{side}.current_rise_gc", "s", "Current rise at turn-on by the gate-charge method, t_ri"),
+    ("switching.{side}.rise_time", "s", "Drain-voltage fall at turn-on along the plateau, t_fv"),
     ("switching.{side}.td_off", "s", "Turn-off delay t_d(off)"),
-    ("switching.{side}.fall_time", "s", "Drain-voltage transition at turn-off along the plateau, t_f"),
-    ("switching.{side}.tail", "s", "Current fall at turn-off, gate from plateau to threshold"),
-    ("switching.{side}.turn_on_time", "s", "t_d(on) + t_r"),
-    ("switching.{side}.turn_off_time", "s", "t_d(off) + t_f + current-fall tail: until the channel is off"),
+    ("switching.{side}.fall_time", "s", "Drain-voltage rise at turn-off along the plateau, t_rv"),
+    ("switching.{side}.tail", "s", "Current fall at turn-off by the gate-charge method (plateau to threshold), t_fi"),
+    ("switching.{side}.turn_on_time", "s", "t_d(on) + t_ri + t_fv"),
+    ("switching.{side}.turn_off_time", "s", "t_d(off) + t_rv + t_fi until the channel is off, "
+     "at the load current that makes it longest"),
+    ("switching.{side}.rg_internal_used", "Ω", "Internal gate resistance used for turn-off and dead time"),
+    ("switching.{side}.current_fall", "s", "Current-fall interval at turn-off used for L·di/dt: "
+     "datasheet t_f, or the gate-charge t_fi bounded by the common-source inductance"),
+    ("switching.{side}.current_rise", "s", "Current-rise interval at turn-on used for L·di/dt"),
+    ("switching.{side}.overlap_time", "s", "t_ri + t_fv + t_rv + t_fi: voltage and current both "
+     "present, for the switching loss"),
     ("switching.{side}.pull_only", "", "The pull resistor is the only turn-off path", "flag"),
     ("switching.{side}.off_seconds_per_ohm", "s/Ω", "Turn-off time per ohm of gate-loop resistance"),
     ("switching.{side}.off_charge", "C", "Gate charge removed to turn the switch off"),
@@ -42,7 +64,12 @@ QUANTITIES = declare(
     ("switching.{side}.dvdt", "V/s", "Drain slew rate when the other switch of the leg turns on"),
     ("switching.{side}.induced_vgs", "V", "Off-state gate-source voltage during that slew, "
      "off level plus the C_gd-coupled rise"),
-    ("timing.{side}.dead_time", "s", "Dead time before this switch turns on"),
+    ("timing.{side}.dead_time", "s", "Effective dead time before this switch turns on, after "
+     "the driver's delay mismatch and spread and the controller's resolution"),
+    ("timing.{side}.dead_time_loss", "s", "Dead time lost to driver delay mismatch, delay spread "
+     "and controller resolution"),
+    ("timing.{side}.shoot_through_peak", "A", "Cross-conduction current bound V_bus/(R_high + "
+     "R_low) at the hot on-resistances, where the leg can cross-conduct"),
     ("timing.{side}.outgoing_turn_off", "s", "Turn-off time of the other switch, before this one turns on"),
     ("timing.{side}.incoming_delay", "s", "This switch's turn-on delay"),
     ("timing.{side}.needed", "s", "Outgoing turn-off minus incoming delay: the bare dead time needed"),
@@ -74,17 +101,23 @@ def plateau(ctx: Ctx, side: str, vth: float) -> float:
     return gp.miller_plateau(vth, i_d, gfs)
 
 
-def _switch(ctx: Ctx, side: str, v_max: float) -> dict:
+def _times(ctx: Ctx, side: str, v_max: float, r_int1: float) -> dict:
+    """Every interval of ``side`` with internal gate resistance ``r_int1`` per device [Ω]."""
     sw, dr = f"switch.{side}", f"drive.{side}"
-    ciss, qgd, vth = ctx.need(f"{sw}.ciss", f"{sw}.qgd", f"{sw}.vth")
+    ciss1, qgd1, vth = ctx.need(f"{sw}.ciss", f"{sw}.qgd", f"{sw}.vth")
     n, own = _n_eff(ctx, side)
-    ciss, qgd = ciss * n, qgd * n
-    r_int = ctx.v(f"{sw}.rg_internal") / n
+    qgd = qgd1 * n
+    r_int = r_int1 / n
     rg = ctx.v(f"{dr}.r_gate") / (n if own else 1)
     rg_off = ctx.v(f"{dr}.r_gate_off")
     rg_off = rg if rg_off is None else rg_off / (n if own else 1)
     v_on, v_off = levels(ctx, side, v_max)
     vp = plateau(ctx, side, vth)
+    v_qg = ctx.v(f"{sw}.qg_vgs")
+    v_qg = ctx.v(f"{sw}.rds_on_vgs") if v_qg is None else v_qg
+    c_lo1, c_hi1 = sp.charge_capacitances(ciss1, ctx.v(f"{sw}.qg"), ctx.v(f"{sw}.qgs"), qgd1,
+                                          vp, v_qg)
+    c_lo, c_hi = c_lo1 * n, c_hi1 * n
     r_src, r_snk = ctx.v(f"{dr}.r_source"), ctx.v(f"{dr}.r_sink")
     i_src, i_snk = ctx.v(f"{dr}.source_current"), ctx.v(f"{dr}.sink_current")
     pull = ctx.v(f"{dr}.pull_resistor") if ctx.v(f"{dr}.pull_to") != "none" else None
@@ -102,44 +135,125 @@ def _switch(ctx: Ctx, side: str, v_max: float) -> dict:
         r_off = r_snk + rg_off + r_int if r_snk is not None else (
             rg_off + r_int if rg_off + r_int > 0 else None)
         i_off = i_snk
-    t = sp.switching_times(ciss, qgd, v_on, vth, vp, r_on=r_on, r_off=r_off, i_source=i_src,
-                           i_sink=i_off, v_off=v_off)
+    kw = dict(r_on=r_on, r_off=r_off, i_source=i_src, i_sink=i_off, v_off=v_off, c_above=c_hi)
+    t = sp.switching_times(c_lo, qgd, v_on, vth, vp, **kw)
+    # at low load current the plateau nears the threshold: longer delay and plateau interval
+    vp_low = min(vp, vth) if vth > v_off else vp
+    t_low = sp.switching_times(c_lo, qgd, v_on, vth, vp_low, **kw)
+    slow_vp = vp_low if t_low.turn_off_to_cutoff > t.turn_off_to_cutoff else vp
     if r_off is not None:
         hold = r_off
     else:
         # a current-rated stage holds the gate through about V_drive / I_peak (estimate)
         hold = rg_off + r_int + abs(v_on - v_off) / i_snk
     return {
-        "v_drive": v_on, "v_off": v_off, "v_plateau": vp, "td_on": t.td_on, "rise_time": t.tr,
+        "v_drive": v_on, "v_off": v_off, "v_plateau": vp, "td_on": t.td_on,
+        "current_rise_gc": t.t_ri, "rise_time": t.tr,
         "td_off": t.td_off, "fall_time": t.tf, "tail": t.tail, "turn_on_time": t.turn_on,
-        "turn_off_time": t.turn_off_to_cutoff, "pull_only": pull_only,
-        "off_seconds_per_ohm": sp.turn_off_seconds_per_ohm(ciss, qgd, v_on, vp, vth, v_off),
-        "off_charge": ciss * max(v_on - vp, 0.0) + qgd + ciss * max(vp - vth, 0.0),
-        "off_r_fixed": r_fixed, "hold_resistance": hold,
-        "_cgd": ctx.v(f"{sw}.crss"), "_ciss1": ctx.v(f"{sw}.ciss"), "_n": n,
+        "turn_off_time": max(t.turn_off_to_cutoff, t_low.turn_off_to_cutoff),
+        "pull_only": pull_only,
+        "off_seconds_per_ohm": sp.turn_off_seconds_per_ohm(c_lo, qgd, v_on, slow_vp, vth, v_off),
+        "off_charge": c_lo * max(v_on - slow_vp, 0.0) + qgd + c_lo * max(slow_vp - vth, 0.0),
+        "off_r_fixed": r_fixed, "hold_resistance": hold, "rg_internal_used": r_int1,
+        "_cgd": ctx.v(f"{sw}.crss"), "_ciss1": ciss1, "_n": n, "_vth": vth,
+        "_r_on": r_on, "_r_off": r_off, "_c_lo": c_lo,
     }
 
 
-def _dead_time(ctx: Ctx, side: str) -> tuple[float, str]:
+def _switch(ctx: Ctx, side: str, v_max: float) -> tuple[dict, dict]:
+    """(slow, fast) interval sets: the same unless the internal gate resistance is absent."""
+    given = ctx.v(f"switch.{side}.rg_internal")
+    if given is not None:
+        t = _times(ctx, side, v_max, given)
+        return t, t
+    return (_times(ctx, side, v_max, RG_INTERNAL_SLOW),
+            _times(ctx, side, v_max, RG_INTERNAL_FAST))
+
+
+def _gfs(ctx: Ctx, side: str, fast: dict, i_dev: float) -> float:
+    gfs = ctx.v(f"switch.{side}.gfs")
+    if gfs is not None:
+        return gfs
+    head = fast["v_plateau"] - fast["_vth"]
+    if head <= 0 or i_dev <= 0:
+        raise NeedsData(f"switch.{side}.gfs")
+    return i_dev / head  # the given plateau sits at I/g_fs above threshold
+
+
+def _current_edges(ctx: Ctx, side: str, fast: dict) -> None:
+    """Publish the one definition of the current edges that stress and grounding share."""
+    sw = f"switch.{side}"
+    with ctx.section(f"switching.{side}.current_rise", f"switching.{side}.current_fall"):
+        n = fast["_n"]
+        i_dev = float(tp.device_current(ctx.q("op.load_current_peak"), n))
+        l_s = ctx.v(f"{sw}.common_source_inductance")
+        if l_s is None:
+            ctx.publish(f"switching.{side}.current_rise", fast["current_rise_gc"],
+                        "gate-charge estimate, no common-source inductance given (a lower bound)")
+        else:
+            g = _gfs(ctx, side, fast, i_dev)
+            t_ls = sp.current_edge_time(i_dev, fast["v_drive"] - fast["v_plateau"], l_s,
+                                        fast["_r_on"] or 0.0, fast["_c_lo"] / n, g)
+            ctx.publish(f"switching.{side}.current_rise", max(t_ls, fast["current_rise_gc"]),
+                        "bounded by the common-source inductance")
+        t_f = ctx.v(f"{sw}.current_fall_time")
+        if t_f is not None:
+            ctx.publish(f"switching.{side}.current_fall", t_f, "the part's datasheet fall time t_f")
+        elif l_s is not None:
+            g = _gfs(ctx, side, fast, i_dev)
+            r_off = fast["_r_off"] if fast["_r_off"] is not None else fast["hold_resistance"]
+            t_ls = sp.current_edge_time(i_dev, fast["v_plateau"] - fast["v_off"], l_s, r_off,
+                                        fast["_c_lo"] / n, g)
+            ctx.publish(f"switching.{side}.current_fall", max(t_ls, fast["tail"]),
+                        "gate-charge current fall bounded by the common-source inductance")
+        else:
+            # the gate-charge tail alone is no usable bound for a fast part (it gives hundreds of
+            # volts of overshoot): say what would give one instead of judging on it
+            raise NeedsData(f"{sw}.current_fall_time", f"{sw}.common_source_inductance")
+
+
+def _dead_time(ctx: Ctx, side: str) -> tuple[float, float, str]:
+    """(effective dead time, time lost to the driver and controller, note) [s]."""
     if ctx.v("drive.shared_signal"):
-        return 0.0, "one signal and its inverse feed the leg: no dead time beyond the inverter's delay"
+        given = ctx.v("timing.dead_time") is not None or ctx.v(f"timing.dead_time_{side}") is not None
+        return 0.0, 0.0, ("one signal and its inverse feed the leg: no dead time beyond the "
+                          "inverter's delay" + ("; timing.dead_time has no effect here"
+                                                if given else ""))
     t = ctx.v(f"timing.dead_time_{side}")
     if t is None:
         t = ctx.need("timing.dead_time")
-    return t, ""
+    mism, spread, res = (ctx.v(f"timing.{k}") for k in ("delay_mismatch", "delay_spread", "resolution"))
+    eff = sp.effective_dead_time(t, mism or 0.0, spread or 0.0, res or 0.0)
+    loss = t - eff
+    parts = [w for w, x in (("driver delay mismatch", mism), ("delay spread", spread),
+                            ("controller resolution", res)) if x]
+    note = f"set {render(t, 's')}, less {' and '.join(parts)}" if parts else ""
+    return eff, loss, note
 
 
 def derive(ctx: Ctx) -> None:
     v_max = ctx.q("op.bus_max")
     sw: dict[str, dict] = {}
+    fast: dict[str, dict] = {}
     for side in SIDES:
         names = [f"switching.{side}.{k}" for k in _PER_SWITCH]
-        with ctx.section(*names):
-            sw[side] = _switch(ctx, side, v_max)
+        with ctx.section(*names, f"switching.{side}.overlap_time"):
+            sw[side], fast[side] = _switch(ctx, side, v_max)
+            given = ctx.v(f"switch.{side}.rg_internal") is not None
             for k in _PER_SWITCH:
-                ctx.publish(f"switching.{side}.{k}", sw[side][k],
-                            "pull resistor is the only turn-off path"
-                            if k == "turn_off_time" and sw[side]["pull_only"] else "")
+                note = ""
+                if k == "turn_off_time" and sw[side]["pull_only"]:
+                    note = "pull resistor is the only turn-off path"
+                elif k in ("turn_off_time", "rg_internal_used") and not given:
+                    note = (f"switch.{side}.rg_internal not given: {RG_INTERNAL_SLOW:g} Ω assumed "
+                            f"here, {RG_INTERNAL_FAST:g} Ω for edge speeds")
+                ctx.publish(f"switching.{side}.{k}", sw[side][k], note)
+            s = sw[side]
+            ctx.publish(f"switching.{side}.overlap_time",
+                        s["current_rise_gc"] + s["rise_time"] + s["fall_time"] + s["tail"],
+                        "gate-charge intervals at the peak load current")
+        if side in fast:
+            _current_edges(ctx, side, fast[side])
 
     for side in SIDES:
         other = OTHER[side]
@@ -148,7 +262,8 @@ def derive(ctx: Ctx) -> None:
                 raise NeedsData(*ctx.missing.get(f"switching.{side if side not in sw else other}.td_on", ()))
             me = sw[side]
             cgd = ctx.need(f"switch.{side}.crss")
-            dvdt = sp.node_slew_rate(v_max, sw[other]["rise_time"])
+            # the other switch's fastest voltage fall sets the slew this switch's gate sees
+            dvdt = sp.node_slew_rate(v_max, fast[other]["rise_time"])
             cgs = max(me["_ciss1"] - cgd, 0.0)
             n = me["_n"]
             induced = sp.induced_gate_voltage(cgd * n, cgs * n, me["hold_resistance"], dvdt, v_max)
@@ -156,20 +271,24 @@ def derive(ctx: Ctx) -> None:
             ctx.publish(f"switching.{side}.induced_vgs", me["v_off"] + induced)
 
         edge = [f"timing.{side}.{k}" for k in (
-            "dead_time", "outgoing_turn_off", "incoming_delay", "needed", "overlap",
-            "outgoing_pull_only", "outgoing_seconds_per_ohm", "outgoing_r_fixed", "outgoing_charge")]
+            "dead_time", "dead_time_loss", "outgoing_turn_off", "incoming_delay", "needed",
+            "overlap", "outgoing_pull_only", "outgoing_seconds_per_ohm", "outgoing_r_fixed",
+            "outgoing_charge")]
         with ctx.section(*edge):
-            dead, note = _dead_time(ctx, side)
+            dead, loss, note = _dead_time(ctx, side)
             ctx.publish(f"timing.{side}.dead_time", dead, note)
+            ctx.publish(f"timing.{side}.dead_time_loss", loss)
             if side not in sw or other not in sw:
                 missing = ctx.missing.get(f"switching.{side}.td_on", ()) + \
                     ctx.missing.get(f"switching.{other}.td_on", ())
                 raise NeedsData(*missing)
-            t_off, td_on = sw[other]["turn_off_time"], sw[side]["td_on"]
+            # the incoming switch's fastest turn-on delay against the outgoing's slowest turn-off
+            t_off, td_on = sw[other]["turn_off_time"], fast[side]["td_on"]
             ctx.publish(f"timing.{side}.outgoing_turn_off", t_off)
             ctx.publish(f"timing.{side}.incoming_delay", td_on)
             ctx.publish(f"timing.{side}.needed", max(t_off - td_on, 0.0))
-            ctx.publish(f"timing.{side}.overlap", sp.shoot_through_overlap(dead, t_off, td_on))
+            overlap = sp.shoot_through_overlap(dead, t_off, td_on)
+            ctx.publish(f"timing.{side}.overlap", overlap)
             ctx.publish(f"timing.{side}.outgoing_pull_only", sw[other]["pull_only"])
             ctx.publish(f"timing.{side}.outgoing_seconds_per_ohm", sw[other]["off_seconds_per_ohm"])
             ctx.publish(f"timing.{side}.outgoing_r_fixed", sw[other]["off_r_fixed"])
@@ -182,6 +301,12 @@ def derive(ctx: Ctx) -> None:
             ctx.publish(f"timing.{side}.outgoing_path", path)
             if ctx.has(f"gate.{other}.pull_voltage"):
                 ctx.publish(f"timing.{side}.outgoing_pull_voltage", ctx.q(f"gate.{other}.pull_voltage"))
+        with ctx.section(f"timing.{side}.shoot_through_peak"):
+            r_hi = _hot_rds(ctx, "high")
+            r_lo = _hot_rds(ctx, "low")
+            ctx.publish(f"timing.{side}.shoot_through_peak",
+                        sp.shoot_through_peak_current(v_max, r_hi, r_lo),
+                        "both channels fully on at T_j,max, no loop inductance: an upper bound")
 
     with ctx.section("timing.dead_time_fraction"):
         dead = max(_dead_time(ctx, s)[0] for s in SIDES)
@@ -205,3 +330,12 @@ def derive(ctx: Ctx) -> None:
             ctx.publish("timing.narrow_pulse_fraction", fraction,
                         "leg pulses (two-level)" if kind == "spwm_bipolar"
                         else "bridge output pulses (three-level), shortest at the zero crossing")
+
+
+def _hot_rds(ctx: Ctx, side: str) -> float:
+    """R_DS(on) of ``side``'s position at T_j,max (paralleled devices together) [Ω]."""
+    sw = f"switch.{side}"
+    rds = ctx.need(f"{sw}.rds_on")
+    r = tp.rds_on_at(ctx.v(f"{sw}.tj_max"), rds, ctx.v(f"{sw}.rds_on_temp"),
+                     ctx.v(f"{sw}.rds_hot_factor"), ctx.v(f"{sw}.rds_hot_temp"))
+    return float(r) / int(ctx.v(f"{sw}.count"))

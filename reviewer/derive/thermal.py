@@ -22,15 +22,22 @@ HARMONICS = ("the fundamental's per-switch split, scaled to the bridge current's
 QUANTITIES = declare(
     ("thermal.load_angle", "rad", "Load current lag behind the bridge voltage's fundamental"),
     ("thermal.{side}.device_rms", "A", "RMS channel current of the most loaded device"),
-    ("thermal.{side}.device_switched", "A", "Mean current at the edges, most loaded device"),
+    ("thermal.{side}.device_switched", "A", "Mean current the most loaded device hard-switches "
+     "per edge (I_pk/π for sine PWM; the edge current for a square wave)"),
     ("thermal.{side}.conduction_loss", "W", "Conduction loss per device at the solved T_j"),
-    ("thermal.{side}.switching_loss", "W", "Switching (overlap and C_oss) loss per device"),
+    ("thermal.{side}.switching_loss", "W", "Switching loss per device: the four overlap "
+     "intervals, C_oss and the other diode's reverse recovery"),
+    ("thermal.{side}.recovery_loss", "W", "Reverse-recovery loss Q_rr·V·f_sw per device, in "
+     "this (incoming) switch"),
     ("thermal.{side}.diode_loss", "W", "Body-diode loss in dead time per device"),
     ("thermal.{side}.power", "W", "Total loss per device at the solved T_j"),
     ("thermal.{side}.rth", "K/W", "Junction-to-ambient thermal resistance per device"),
-    ("thermal.{side}.tj", "°C", "Junction temperature (∞ when there is no steady state)"),
+    ("thermal.{side}.tj", "°C", "Junction temperature; not shown where no steady state at or "
+     "below T_j,max exists"),
+    ("thermal.{side}.verdict", "", "What the electro-thermal solution says", "text"),
     ("thermal.{side}.rds_hot", "Ω", "R_DS(on) at the solved junction temperature"),
-    ("thermal.{side}.runaway", "", "No steady junction temperature: thermal runaway", "flag"),
+    ("thermal.{side}.runaway", "", "No steady junction temperature at or below T_j,max: "
+     "thermal runaway or destruction", "flag"),
     ("thermal.{side}.rth_total_max", "K/W", "Largest junction-to-ambient resistance keeping "
      "T_j ≤ T_j,max − 25 °C"),
     ("thermal.{side}.rth_sa_max", "K/W", "Largest sink-to-ambient resistance keeping "
@@ -57,7 +64,8 @@ def derive(ctx: Ctx) -> None:
         sw = f"switch.{side}"
         names = [f"thermal.{side}.{k}" for k in (
             "device_rms", "device_switched", "conduction_loss", "switching_loss", "diode_loss",
-            "power", "rth", "tj", "rds_hot", "runaway", "rth_total_max", "rth_sa_max")]
+            "recovery_loss", "power", "rth", "tj", "verdict", "rds_hot", "runaway",
+            "rth_total_max", "rth_sa_max")]
         with ctx.section(*names):
             i_pk = ctx.q("op.load_current_peak")
             phi = ctx.q("thermal.load_angle")
@@ -80,11 +88,22 @@ def derive(ctx: Ctx) -> None:
             rds, coss, vf = ctx.need(f"{sw}.rds_on", f"{sw}.coss", f"{sw}.diode_vf")
             f_sw = ctx.q("op.switching_frequency")
             v = ctx.q("op.bus_max")
-            tr, tf = ctx.q(f"switching.{side}.rise_time"), ctx.q(f"switching.{side}.fall_time")
-            p_sw = tp.switching_loss(v, i_sw, tr, tf, f_sw) + tp.coss_loss(coss, v, f_sw)
+            # all four intervals; the datasheet or inductance-bounded current fall where longer
+            t_sum = ctx.q(f"switching.{side}.overlap_time")
+            if ctx.has(f"switching.{side}.current_fall"):
+                t_sum += max(ctx.q(f"switching.{side}.current_fall") - ctx.q(f"switching.{side}.tail"), 0.0)
+            other = "low" if side == "high" else "high"
+            qrr = ctx.v(f"switch.{other}.diode_qrr")
+            spwm = kind not in ("square", "quasi_square")
+            # sine PWM: a device turns on against the other's diode only in its own half cycle
+            p_rr = float(tp.recovery_loss(qrr, v, f_sw, 0.5 if spwm else 1.0)) / n if qrr else 0.0
+            p_sw = tp.switching_loss(v, i_sw, t_sum, 0.0, f_sw) + tp.coss_loss(coss, v, f_sw) + p_rr
             dead = max(ctx.q(f"timing.{s}.dead_time") for s in SIDES)
-            # each body diode carries the current at half of the leg's dead intervals
-            p_d = tp.body_diode_loss(vf, i_sw / 2, dead, f_sw)
+            # sine PWM: the device's diode carries I_pk/π on average over both dead intervals of
+            # every carrier period; stepped waves: one dead interval per period at the edge current
+            p_d = tp.body_diode_loss(vf, i_sw if spwm else i_sw / 2, dead, f_sw)
+            ctx.publish(f"thermal.{side}.recovery_loss", p_rr,
+                        "" if qrr else f"switch.{other}.diode_qrr not given: no recovery loss counted")
             ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)
             ctx.publish(f"thermal.{side}.diode_loss", p_d, FUNDAMENTAL)
 
@@ -97,16 +116,25 @@ def derive(ctx: Ctx) -> None:
             model = dict(rds_ref=rds, t_ref=ctx.v(f"{sw}.rds_on_temp"),
                          hot_factor=ctx.v(f"{sw}.rds_hot_factor"), t_hot=ctx.v(f"{sw}.rds_hot_temp"))
             ta = ctx.v("environment.ambient")
-            sol = tp.solve_junction_temperature(ta, rth, i_dev, p_other=p_sw + p_d, **model)
+            tj_max = ctx.v(f"{sw}.tj_max")
+            # a fixed point above T_j,max is no operating point: the part is destroyed on the
+            # way there, and the on-resistance model is not valid beyond it; stop the search at
+            # T_j,max and never report a temperature beyond it
+            sol = tp.solve_junction_temperature(ta, rth, i_dev, p_other=p_sw + p_d,
+                                                t_ceiling=tj_max, **model)
             ctx.publish(f"thermal.{side}.runaway", not sol.converged)
             if sol.converged:
                 ctx.publish(f"thermal.{side}.tj", sol.t_j)
                 ctx.publish(f"thermal.{side}.rds_hot", sol.rds_on)
                 ctx.publish(f"thermal.{side}.conduction_loss", sol.power - p_sw - p_d, FUNDAMENTAL)
                 ctx.publish(f"thermal.{side}.power", sol.power, FUNDAMENTAL)
+                ctx.publish(f"thermal.{side}.verdict", "a steady junction temperature exists")
             else:
-                ctx.publish(f"thermal.{side}.tj", math.inf, sol.message)
-            t_lim = ctx.v(f"{sw}.tj_max") - TJ_MARGIN
+                ctx.publish(f"thermal.{side}.verdict",
+                            f"no steady junction temperature at or below T_j,max "
+                            f"({tj_max:g} °C): the junction either runs away or would settle "
+                            f"beyond its maximum, which destroys the part")
+            t_lim = tj_max - TJ_MARGIN
             total = tp.largest_total_resistance(t_lim, ta, i_dev, p_other=p_sw + p_d, **model)
             ctx.publish(f"thermal.{side}.rth_total_max", total,
                         f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")

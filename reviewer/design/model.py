@@ -90,6 +90,14 @@ class Timing(Part):
     dead_time_low: S | None = Field(None, description="Dead time before the low side turns on, "
                                     "if it differs.")
     enforced_in: Literal["hardware", "firmware", "driver", "none"] | None = None
+    delay_mismatch: S | None = Field(None, description="Largest difference between the gate "
+                                     "driver's high- and low-channel propagation delays "
+                                     "(magnitude); it eats into the dead time at one edge.")
+    delay_spread: S | None = Field(None, description="Further spread of propagation delay between "
+                                   "the two channels' paths (separate drivers, isolators, "
+                                   "temperature), beyond the driver's own mismatch (magnitude).")
+    resolution: S | None = Field(None, description="Step of the controller's dead-time setting; "
+                                 "the dead time made may be one step short of the value asked.")
 
 
 class Switch(Part):
@@ -106,24 +114,40 @@ class Switch(Part):
                                   "rds_on_temp (default 1.7: common practice, parts range 1.4–2.2).")
     rds_hot_temp: DEGC = _x(125.0)
     qg: C | None = Field(None, description="Total gate charge.")
-    qgs: C | None = None
+    qgs: C | None = Field(None, description="Gate-source charge, 0 V to the plateau.")
+    qg_vgs: V | None = Field(None, description="Gate-source voltage the total gate charge qg is "
+                             "given at (magnitude); when absent rds_on_vgs is taken.")
     qgd: C | None = Field(None, description="Gate-drain (Miller) charge.")
     ciss: F | None = None
     crss: F | None = None
     coss: F | None = None
-    rg_internal: OHM = Field(_x(0.0), description="Internal gate resistance (default 0).")
+    rg_internal: OHM | None = Field(None, description="Internal gate resistance. When absent, "
+                                    "3 Ω is assumed for turn-off and dead-time figures and 0 Ω "
+                                    "for edge speeds (each the conservative end; stated in the "
+                                    "findings).")
+    current_fall_time: S | None = Field(None, description="Datasheet fall time t_f, taken as the "
+                                        "current-fall interval at turn-off (used for the turn-off "
+                                        "overshoot instead of the gate-charge estimate).")
+    common_source_inductance: H | None = Field(None, description="Inductance shared by the gate "
+                                               "loop and the power path (source lead, bond wires, "
+                                               "shared copper); it bounds the current edges.")
+    vth_hot: V | None = Field(None, description="Lowest gate threshold at T_j,max (magnitude), "
+                              "from the part's threshold-against-temperature curve.")
     gfs: SIEMENS | None = Field(None, description="Forward transconductance, for the Miller plateau.")
     v_plateau: V | None = Field(None, description="Miller plateau voltage, if known (magnitude).")
     diode_vf: V | None = Field(None, description="Body-diode forward voltage.")
-    diode_trr: S | None = None
-    diode_qrr: C | None = None
+    diode_trr: S | None = Field(None, description="Body-diode reverse-recovery time.")
+    diode_qrr: C | None = Field(None, description="Body-diode reverse-recovery charge.")
     rth_jc: KW | None = None
     rth_cs: KW | None = None
     rth_sa: KW | None = None
     rth_ja: KW | None = Field(None, description="Junction to ambient, when there is no heatsink.")
     tj_max: DEGC = _x(150.0)
+    zth_tau: S | None = Field(None, description="Thermal time constant of the junction-to-case "
+                              "path (single-pole fit of the part's transient thermal impedance "
+                              "Z_th,jc); enables the temperature swing of long on-times.")
     id_continuous: A | None = None
-    id_pulse: A | None = None
+    id_pulse: A | None = Field(None, description="Pulsed drain current rating I_D,pulse.")
     sc_withstand: S | None = Field(None, description="Short-circuit withstand time.")
 
 
@@ -146,6 +170,9 @@ class DriveStage(Part):
     pull_power_rating: W | None = None
     zener: V | None = Field(None, description="Gate-source zener clamp voltage.")
     uvlo: V | None = Field(None, description="Gate-supply undervoltage lockout threshold.")
+    reference_negative_limit: V | None = Field(
+        None, description="Bootstrap driver: how far (magnitude) its switch-node reference pin "
+        "may be pulled below the driver's ground during an edge.")
 
 
 class Drive(Part):
@@ -164,8 +191,14 @@ class Bootstrap(Part):
     capacitor: F
     supply: V = Field(description="Gate-drive supply V_cc that charges the capacitor.")
     diode_vf: V = Field(_x(0.7), description="Bootstrap diode forward drop (default 0.7 V).")
-    quiescent_current: A = Field(_x(0.0), description="High-side driver quiescent current.")
-    leakage_current: A = Field(_x(0.0), description="Capacitor and diode leakage.")
+    quiescent_current: A = Field(_x(200e-6), description="High-side driver quiescent current "
+                                 "(default 200 µA, a conservative figure: common practice).")
+    leakage_current: A = Field(_x(10e-6), description="Capacitor, diode and gate leakage "
+                               "(default 10 µA: common practice).")
+    diode_rating: V | None = Field(None, description="Bootstrap diode reverse-voltage rating.")
+    series_resistance: OHM = Field(_x(1.0), description="Resistance in the bootstrap charging "
+                                   "path, diode and any series resistor (default 1 Ω: common "
+                                   "practice).")
     level_shift_charge: C = Field(_x(0.0), description="Level shifter charge per cycle.")
 
 

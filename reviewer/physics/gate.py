@@ -342,3 +342,33 @@ def vth_at_temperature(vth_ref, t, t_ref, coefficient):
     """
     v, tt, tr, k = (np.asarray(a, dtype=float) for a in (vth_ref, t, t_ref, coefficient))
     return _out(v + k * (tt - tr))
+
+
+VTH_FLOOR_FRACTION = 0.5
+"""Lowest threshold at temperature, as a fraction of the 25 °C value, for the linear model
+[unitless]: normalised threshold curves of silicon MOSFETs seldom fall below about half at
+150–175 °C (from memory)."""
+
+
+def vth_hot_estimate(vth_ref, t, t_ref=25.0, coefficient=-5e-3, floor_fraction=VTH_FLOOR_FRACTION):
+    """Threshold at ``t`` by the linear coefficient, never below ``floor_fraction`` of V_th(T_ref) [V].
+
+    A linear coefficient taken far enough goes negative, which no part does; the floor keeps the
+    estimate physical. Use the part's own threshold at temperature where it is given.
+
+    Parameters
+    ----------
+    vth_ref : threshold magnitude at ``t_ref`` [V]
+    t : temperature [°C]
+    t_ref : temperature the threshold is given at [°C]
+    coefficient : temperature coefficient [V/°C] (−5 mV/°C: from memory)
+    floor_fraction : lowest fraction of ``vth_ref`` [unitless]
+
+    References
+    ----------
+    Baliga, *Fundamentals of Power Semiconductor Devices*, 2008, §6.3 (threshold against
+    temperature); coefficient and floor from memory.
+    """
+    v = np.asarray(vth_ref, dtype=float)
+    lin = np.asarray(vth_at_temperature(v, t, t_ref, coefficient), dtype=float)
+    return _out(np.maximum(lin, np.asarray(floor_fraction, dtype=float) * v))

@@ -95,6 +95,45 @@ def switching_overshoot(l_loop: Any, i_peak: Any, t_fall: Any) -> Any:
     return inductive_voltage(l_loop, current_slope(i_peak, t_fall))
 
 
+def avalanche_energy(l_loop: Any, i_peak: Any, v_rating: Any, v_bus: Any, v_peak: Any) -> Any:
+    """Energy a switch absorbs in avalanche at one turn-off where the overshoot passes its rating.
+
+    E = ½ · L · I² · V_BR / (V_BR − V_bus) where the unclamped peak ``v_peak`` exceeds the rating
+    V_BR (taken as the breakdown voltage), else 0. Infinite when the bus itself is at or above
+    the rating (the part cannot block it).
+
+    Parameters
+    ----------
+    l_loop : float or ndarray
+        Commutation-loop inductance [H].
+    i_peak : float or ndarray
+        Current being turned off [A].
+    v_rating : float or ndarray
+        Drain-source rating, taken as the avalanche voltage [V].
+    v_bus : float or ndarray
+        Bus voltage [V].
+    v_peak : float or ndarray
+        Peak drain-source voltage without avalanche [V].
+
+    Returns
+    -------
+    float or ndarray
+        Avalanche energy per edge [J].
+
+    References
+    ----------
+    Unclamped inductive switching energy, E = ½·L·I²·V_BR/(V_BR − V_DD): Baliga, *Fundamentals
+    of Power Semiconductor Devices*, 2008, §6 (avalanche ruggedness; section from memory).
+    """
+    import numpy as np
+
+    l, i, vr, vb, vp = (np.asarray(x, dtype=float) for x in (l_loop, i_peak, v_rating, v_bus, v_peak))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        e = np.where(vr > vb, 0.5 * l * i * i * vr / np.where(vr > vb, vr - vb, 1.0), np.inf)
+    e = np.where(vp > vr, e, 0.0)
+    return float(e) if e.ndim == 0 else e
+
+
 def max_inductance(v_allowed: Any, i_step: Any, t_transition: Any) -> Any:
     """Largest inductance that keeps ``L · ΔI / t`` within ``v_allowed``: the layout target.
 

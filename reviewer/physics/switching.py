@@ -501,6 +501,30 @@ def dead_time_required(t_turn_off, td_on_other, margin=0.5):
     return _out((1.0 + m) * np.maximum(t - d, 0.0))
 
 
+def effective_dead_time(t_set, delay_mismatch=0.0, delay_spread=0.0, resolution=0.0):
+    """Dead time the gates actually see, t_set − mismatch − spread − resolution, never below 0 [s].
+
+    The controller's edge reaches the two gates through two driver channels: a channel that is
+    faster by the propagation-delay mismatch (and any further spread between the paths) takes
+    that much from the dead time at one of the two edges; a controller that sets the dead time
+    in steps may make it one step short.
+
+    Parameters
+    ----------
+    t_set : dead time programmed [s]
+    delay_mismatch : driver high/low propagation-delay mismatch (magnitude) [s]
+    delay_spread : further delay spread between the two paths (magnitude) [s]
+    resolution : the controller's dead-time step [s]
+
+    References
+    ----------
+    Holmes & Lipo, 2003, §3.6 (the blanking interval as the gates see it); delay budget: common
+    practice.
+    """
+    t = _a(t_set) - _a(delay_mismatch) - _a(delay_spread) - _a(resolution)
+    return _out(np.maximum(t, 0.0))
+
+
 def shoot_through_overlap(t_dead, t_turn_off, td_on_other):
     """Time both switches of a leg conduct at once, max(0, t_off − t_dead − t_d(on),other) [s].
 

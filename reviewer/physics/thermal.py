@@ -149,6 +149,38 @@ def switching_loss(v_bus, i_switched, t_rise, t_fall, f_sw):
     return _out(0.5 * _a(v_bus) * _a(i_switched) * (_a(t_rise) + _a(t_fall)) * _a(f_sw))
 
 
+def recovery_peak_current(qrr, trr):
+    """Peak reverse-recovery current of a diode, I_rr ≈ 2 · Q_rr / t_rr [A].
+
+    A triangular recovery current of height I_rr and base t_rr holds Q_rr = ½·I_rr·t_rr.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §20-2 (diode reverse recovery,
+    Q_rr ≈ ½·I_rr·t_rr; section from memory).
+    """
+    return _out(2.0 * _a(qrr) / _a(trr))
+
+
+def recovery_loss(qrr, v_bus, f_sw, share=1.0):
+    """Reverse-recovery loss in the incoming switch, P = Q_rr · V_bus · f_sw · share [W].
+
+    Parameters
+    ----------
+    qrr : the other switch's diode recovery charge [C]
+    v_bus : voltage switched [V]
+    f_sw : switching frequency [Hz]
+    share : fraction of the edges at which this switch turns on against a conducting diode
+        [unitless] (½ for sine PWM: only in its own half cycle)
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §20-2 and §7-7 (recovery charge
+    removed through the incoming switch at the full bus; sections from memory).
+    """
+    return _out(_a(qrr) * _a(v_bus) * _a(f_sw) * _a(share))
+
+
 def coss_loss(coss, v_bus, f_sw):
     """Output-capacitance loss ½ · C_oss · V² · f_sw [W].
 
@@ -445,26 +477,51 @@ def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.
     raise ValueError(f"unknown modulation {modulation!r}")
 
 
-def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
-                     notch_angle: float = 0.0) -> float:
-    """Mean magnitude of the load current at a switch's edges, for the switching loss [A].
+def square_edge_current(i_peak, phase=0.0):
+    """Load current at the edge of a square-wave bridge voltage into an R-L load [A].
 
-    square: edges at θ = 0, π: I_pk·|sin φ| (zero for a purely resistive sinusoid; a real
-    square-wave current is not sinusoidal, so use the actual current when known);
-    quasi-square: edges at α and π − α: I_pk·(|sin(α − φ)| + |sin(α + φ)|)/2;
-    sine PWM: edges spread evenly over the cycle: the mean of |i|, 2·I_pk/π.
+    ±V into R-L settles to i_edge = (V/R)·tanh(T/(4τ)), τ = L/R. Written with the fundamental's
+    peak I_1 = (4/π)·V·cos φ/R and tan φ = ω·τ: i_edge = (π/4)·(I_1/cos φ)·tanh(π/(2·tan φ)),
+    which is V/R for a resistor (φ = 0): a square wave into a resistor switches V/R, not 0 A.
+
+    Parameters
+    ----------
+    i_peak : peak of the load current's fundamental [A]
+    phase : load angle φ [rad], 0 ≤ φ < π/2
 
     References
     ----------
-    Mean of |sin| over a cycle, 2/π; Holmes & Lipo 2003 ch. 3 (edge positions).
+    Steady-state first-order response to a square wave (Mohan, Undeland & Robbins, *Power
+    Electronics*, 3rd ed., §8-3, square-wave inverter with R-L load; section from memory).
+    """
+    i, phi = _a(i_peak), np.abs(_a(phase))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = np.where(phi > 0, np.pi / (2.0 * np.tan(np.where(phi > 0, phi, 1.0))), np.inf)
+    return _out(np.pi / 4.0 * i / np.cos(phi) * np.tanh(x))
+
+
+def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
+                     notch_angle: float = 0.0) -> float:
+    """Mean current one device hard-switches per edge, over the output period [A].
+
+    sine PWM: each device hard-switches only in its own half cycle (the other half it hands the
+    current to, or takes it from, its own body diode: soft), so the mean over every carrier
+    edge of the period is (1/2π)·∫ max(i, 0) dθ = I_pk/π (the whole leg's is 2·I_pk/π), for any
+    load angle; square: the actual current at the edge, :func:`square_edge_current`;
+    quasi-square: the fundamental at the edges α and π − α, I_pk·(|sin(α − φ)| + |sin(α + φ)|)/2
+    (the stepped current is not synthesised here).
+
+    References
+    ----------
+    Holmes & Lipo 2003 ch. 3 (edge positions); mean of max(sin, 0) over a cycle is 1/π.
     """
     i, phi, a = float(i_peak), float(phase), float(notch_angle)
     if modulation == "square":
-        return i * abs(math.sin(phi))
+        return float(square_edge_current(i, phi))
     if modulation == "quasi_square":
         return i * (abs(math.sin(a - phi)) + abs(math.sin(a + phi))) / 2
     if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
-        return 2 * i / math.pi
+        return i / math.pi
     raise ValueError(f"unknown modulation {modulation!r}")
 
 
