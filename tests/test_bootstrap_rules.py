@@ -22,7 +22,8 @@ def boot(cap: float, *extra):
     return bridge(("modulation", "kind", '"square"'), ("drive.high", "kind", '"bootstrap_driver"'),
                   ("drive.high", "pull_to", '"none"'),
                   ("bootstrap", "capacitor", f'"{cap!r} F"'), ("bootstrap", "supply", '"12 V"'),
-                  ("bootstrap", "quiescent_current", '"100 µA"'), *extra)
+                  ("bootstrap", "quiescent_current", '"100 µA"'),
+                  ("bootstrap", "leakage_current", '"0 A"'), *extra)
 
 
 @pytest.mark.parametrize("cap, outcome", [(C_MIN, "pass"), (0.99 * C_MIN, "fail")])

@@ -14,7 +14,7 @@ MAINS = example("mains_output_transformer").read_text(encoding="utf-8")
 
 def _with_common(value: str) -> str:
     return CAREFUL.replace(
-        'common_inductance = "50 pH"  # star point at the low-side sources: almost nothing shared',
+        'common_inductance = "40 pH"  # star point at the low-side sources: almost nothing shared',
         f'common_inductance = "{value}"')
 
 
@@ -62,3 +62,16 @@ def test_metal_enclosure_beyond_elv_needs_protective_earth():
 ])
 def test_examples_grounding(name, expected):
     assert_fails(review_file(example(name)), expected, area="grounding")
+
+
+def test_bounce_uses_the_same_current_edges_as_the_overshoot():
+    r = review_text(CAREFUL)
+    edges = [r.sheet.value(f"switching.{s}.{k}") for s in ("high", "low")
+             for k in ("current_rise", "current_fall")]
+    assert r.sheet.value("grounding.edge_time") == pytest.approx(min(edges))
+    # without a bound on the current fall (no datasheet t_f, no common-source inductance) the
+    # bounce is not judged on the gate-charge tail: it needs data
+    text = CAREFUL.replace('current_fall_time = "20 ns"   # datasheet t_f\n', "")
+    f = finding(review_text(text), "grounding.bounce")
+    assert f.outcome == "needs_data"
+    assert "switch.high.current_fall_time" in f.needs

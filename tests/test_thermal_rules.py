@@ -110,7 +110,8 @@ def test_paralleled_device_current_with_sharing_allowance(scale, outcome):
 
 
 @pytest.mark.parametrize("name, expected", [
-    ("naive_bench_pchannel", {"thermal.junction[high]", "thermal.junction[low]"}),
+    # the naive bench's worst corners settle above its 150 °C T_j,max: destruction, a hazard
+    ("naive_bench_pchannel", {"thermal.junction[high]", "thermal.runaway[high]", "thermal.runaway[low]"}),
     ("nchannel_bootstrap_quasi", set()),
     ("careful_12v_sine", set()),
     ("mains_output_transformer", set()),
@@ -122,3 +123,56 @@ def test_example_designs(name, expected):
 def test_findings_say_the_current_is_from_the_fundamental():
     f = finding(review_file("naive_bench_pchannel"), "thermal.junction[high]")
     assert any("fundamental" in a for a in f.assumptions)
+
+
+def _temperatures_in(review) -> list[float]:
+    """Every °C figure printed in the findings' texts and the thermal quantities' values."""
+    import re
+    out = []
+    for f in review.findings:
+        for text in (f.mitigation or "", f.why or ""):
+            out += [float(x) for x in re.findall(r"(-?\d+(?:\.\d+)?) ?°C", text)]
+    for name in ("thermal.high.tj", "thermal.low.tj"):
+        q = review.sheet.get(name)
+        if q is not None:
+            out += [q.typ, q.lo, q.hi]
+    return out
+
+
+def test_200_k_per_w_reports_destruction_and_prints_no_temperature_beyond_tj_max():
+    # 200 K/W junction to ambient: T = 25 + 200·P(T) has no balance below 150 °C (P > 0.63 W
+    # at every T: checked by hand against the loss formulas above, I_rms ≈ 3.5 A).
+    r = review_text(bridge(("switch.low", "rth_ja", '"200 K/W"')))
+    f = finding(r, "thermal.runaway[low]")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    assert "destroys the part" in f.mitigation
+    assert all(t <= 150.0 for t in _temperatures_in(r))
+    assert r.sheet.get("thermal.low.tj") is None
+
+
+def test_a_fixed_point_far_above_tj_max_is_a_hazard_not_a_steady_temperature():
+    # With a flat on-resistance (hot factor 1) the balance is T = T_a + θ·P exactly: choose θ so
+    # that it lies at 527 °C; the part is destroyed long before, so it is a hazard and no
+    # temperature above T_j,max appears as a result.
+    base = review_text(bridge(("switch.low", "rds_hot_factor", "1.0")))
+    p = base.sheet.value("thermal.low.power")
+    theta = (527.0 - 25.0) / p
+    r = review_text(bridge(("switch.low", "rds_hot_factor", "1.0"),
+                           ("switch.low", "rth_ja", f'"{theta!r} K/W"')))
+    f = finding(r, "thermal.runaway[low]")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    assert finding(r, "thermal.junction[low]").outcome == "not_applicable"
+    assert all(t <= 150.0 for t in _temperatures_in(r))
+
+
+def test_tj_above_tj_max_at_one_corner_only_is_a_hazard():
+    # a ±30 % thermal resistance whose typical value stays below T_j,max but whose high end
+    # passes it: the hazard fires at that corner
+    base = review_text(bridge(("switch.low", "rds_hot_factor", "1.0")))
+    p = base.sheet.value("thermal.low.power")
+    theta = (140.0 - 25.0) / p                         # typical 140 °C; +30 % gives 174.5 °C
+    r = review_text(bridge(("switch.low", "rds_hot_factor", "1.0"),
+                           ("switch.low", "rth_ja", f'"{theta!r} K/W ± 30%"')))
+    f = finding(r, "thermal.runaway[low]")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    assert f.corner == (("switch.low.rth_ja", "max"),)
