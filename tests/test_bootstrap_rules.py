@@ -6,6 +6,8 @@ by term; ten times the minimum is common practice.
 """
 
 
+import math
+
 import pytest
 from scipy.integrate import solve_ivp
 
@@ -82,3 +84,59 @@ def test_quasi_square_example_cannot_hold_the_gate():
 @pytest.mark.parametrize("name", ["naive_bench_pchannel", "careful_12v_sine", "mains_output_transformer"])
 def test_other_examples(name):
     assert_fails(review_file(name), set(), area="bootstrap")
+
+
+# ------------------------------------------------------------- refresh, first pulse, diode
+
+def spwm_boot(index: str, *extra):
+    return bridge(("drive.high", "kind", '"bootstrap_driver"'), ("drive.high", "pull_to", '"none"'),
+                  ("modulation", "index", index),
+                  ("bootstrap", "capacitor", '"1 µF"'), ("bootstrap", "supply", '"12 V"'),
+                  ("bootstrap", "quiescent_current", '"100 µA"'),
+                  ("bootstrap", "leakage_current", '"0 A"'), *extra)
+
+
+def test_refresh_returns_the_charge_a_carrier_period_takes():
+    # M = 0.9 at 20 kHz: (1 − M)/(2 f_c) = 2.5 µs of recharge; 1 Ω · 1 µF = 1 µs:
+    # returned C·ΔV·(1 − e^(−2.5)) = 1 µF · 1.3 V · 0.91792 = 1.1933 µC; drawn per period
+    # Q_g + I_q·t_on with t_on = (1 + M)/(2 f_c) = 47.5 µs: 40 nC + 4.75 nC (hand calculation).
+    r = review_text(spwm_boot("0.9"))
+    f = finding(r, "bootstrap.refresh")
+    assert f.value == pytest.approx(1e-6 * 1.3 * (1 - math.exp(-2.5)), rel=1e-6)
+    assert f.limit == pytest.approx(40e-9 + 100e-6 * 47.5e-6, rel=1e-6)
+    assert f.outcome == "pass"
+    # a 100 Ω charging path: τ = 100 µs, returned 1.3 µC·(1 − e^(−0.025)) = 32.1 nC < 44.75 nC
+    f = finding(review_text(spwm_boot("0.9", ("bootstrap", "series_resistance", '"100 Ω"'))),
+                "bootstrap.refresh")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    # the largest resistance that passes: t / (C · ln(1/(1 − Q/(C·ΔV))))
+    q = 40e-9 + 100e-6 * 47.5e-6
+    assert f.pass_value == pytest.approx(2.5e-6 / (1e-6 * math.log(1 / (1 - q / 1.3e-6))), rel=1e-6)
+
+
+def test_overmodulation_leaves_no_refresh():
+    f = finding(review_text(spwm_boot("1.05")), "bootstrap.refresh")
+    assert f.outcome == "fail" and f.value == 0.0
+
+
+def test_refresh_not_applicable_to_stepped_waves():
+    assert finding(review_text(boot(C_MIN)), "bootstrap.refresh").outcome == "not_applicable"
+
+
+def test_first_pulse_from_an_empty_capacitor():
+    # first carrier period at zero reference: 1/(2 f_c) = 25 µs of charging through 1 Ω · 1 µF:
+    # 11.3 V·(1 − e^(−25)) − 40 nC/1 µF = 11.26 V; through 10 Ω: 11.3·(1 − e^(−2.5)) − 0.04 = 10.33 V
+    f = finding(review_text(spwm_boot("0.9")), "bootstrap.first-pulse")
+    assert f.value == pytest.approx(11.3 * (1 - math.exp(-25)) - 0.04, rel=1e-6)
+    f = finding(review_text(spwm_boot("0.9", ("bootstrap", "series_resistance", '"25 Ω"'))),
+                "bootstrap.first-pulse")
+    assert f.value == pytest.approx(11.3 * (1 - math.exp(-1)) - 0.04, rel=1e-6)
+    assert f.outcome == "fail"
+
+
+@pytest.mark.parametrize("rating, outcome", [("24 V", "pass"), ("23.9 V", "fail")])
+def test_bootstrap_diode_rating(rating, outcome):
+    # 12 V bus (no loop inductance given: no overshoot) + 12 V drive supply = 24 V
+    f = finding(review_text(spwm_boot("0.9", ("bootstrap", "diode_rating", f'"{rating}"'))),
+                "bootstrap.diode-rating")
+    assert f.outcome == outcome and f.limit == pytest.approx(24.0)

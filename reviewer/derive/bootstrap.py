@@ -3,6 +3,8 @@ needs and the gate voltage left at the end of the longest on-time the modulation
 
 from __future__ import annotations
 
+import math
+
 from reviewer.physics import bootstrap as bp
 from reviewer.quantities import Ctx, declare
 
@@ -14,6 +16,16 @@ QUANTITIES = declare(
     ("bootstrap.c_min", "F", "Smallest bootstrap capacitance, Q_total / ΔV"),
     ("bootstrap.c_practice", "F", "Ten times the minimum (common practice)"),
     ("bootstrap.gate_end", "V", "High-side gate-source voltage at the end of the longest on-time"),
+    ("bootstrap.refresh_time", "s", "Shortest low-side on-time per switching period (recharge time)"),
+    ("bootstrap.cycle_charge", "C", "Charge drawn from the capacitor per switching period"),
+    ("bootstrap.refresh_charge", "C", "Charge the shortest refresh returns with the capacitor at "
+     "its allowed droop"),
+    ("bootstrap.refresh_resistance_max", "Ω", "Largest charging-path resistance whose shortest "
+     "refresh still returns the charge drawn"),
+    ("bootstrap.first_pulse_vgs", "V", "High-side gate-source voltage at the first pulse after "
+     "start-up, after one low-side on-time from an empty capacitor"),
+    ("bootstrap.diode_reverse", "V", "Reverse voltage the bootstrap diode must be rated for, "
+     "V_bus,max + V_cc (the switch node's overshoot included where known)"),
 )
 
 NAMES = [d.pattern for d in QUANTITIES]
@@ -64,3 +76,39 @@ def derive(ctx: Ctx) -> None:
         v_end = bp.gate_voltage_after(v_start - ctx.v("bootstrap.level_shift_charge") / cap, cap, qg,
                                       i_dc, t_on, pull if pull else float("inf"))
         ctx.publish("bootstrap.gate_end", v_end)
+
+        # refresh: the shortest low-side on-time per period must put back what a period takes
+        f_sw = ctx.q("op.switching_frequency")
+        dead = max(ctx.q(f"timing.{s}.dead_time") for s in ("high", "low")) \
+            if ctx.has("timing.high.dead_time") and ctx.has("timing.low.dead_time") else 0.0
+        index = ctx.v("modulation.index")
+        t_ref = bp.shortest_refresh_time(kind, ctx.need("output.frequency"), dead,
+                                         notch_angle=ctx.v("modulation.notch_angle") or 0.0,
+                                         index=index, f_carrier=ctx.v("modulation.carrier"))
+        ctx.publish("bootstrap.refresh_time", t_ref,
+                    "at the highest modulation index" if index is not None
+                    else "less the dead time")
+        t_period_on = min(t_on, 1.0 / f_sw)
+        q_cycle = bp.bootstrap_charge(qg, i_dc + i_pull, 0.0, t_period_on,
+                                      ctx.v("bootstrap.level_shift_charge"))
+        ctx.publish("bootstrap.cycle_charge", q_cycle)
+        r_ch = ctx.v("bootstrap.series_resistance")
+        ctx.publish("bootstrap.refresh_charge", bp.refresh_charge(cap, r_ch, t_ref, max(dv, 0.0)))
+        # largest R with C·ΔV·(1 − e^(−t/RC)) ≥ Q: R = t / (C·ln(1/(1 − Q/(C·ΔV))))
+        x = q_cycle / (cap * dv) if dv > 0 else float("inf")
+        r_max = t_ref / (cap * math.log(1.0 / (1.0 - x))) if 0 < x < 1 and t_ref > 0 else 0.0
+        ctx.publish("bootstrap.refresh_resistance_max", r_max)
+        # first pulse: the capacitor starts empty and charges for one low-side on-time
+        t_first = bp.shortest_refresh_time(kind, ctx.need("output.frequency"), dead,
+                                           notch_angle=ctx.v("modulation.notch_angle") or 0.0,
+                                           index=0.0 if index is not None else None,
+                                           f_carrier=ctx.v("modulation.carrier"))
+        v_first = float(bp.refresh_charge(cap, r_ch, t_first, v_start)) / cap - qg / cap
+        ctx.publish("bootstrap.first_pulse_vgs", v_first,
+                    "one low-side on-time at the start of the first carrier period (zero "
+                    "reference) charges the empty capacitor")
+    with ctx.section("bootstrap.diode_reverse"):
+        need = ctx.q("op.bus_max") + ctx.need("bootstrap.supply")
+        if ctx.has("stress.high.vds_peak"):
+            need = max(need, ctx.q("stress.high.vds_peak") + ctx.v("bootstrap.supply"))
+        ctx.publish("bootstrap.diode_reverse", need)

@@ -161,3 +161,75 @@ def longest_on_time(modulation: Literal["square", "quasi_square", "spwm_bipolar"
             return (1.0 + index) / (2.0 * f_carrier)
         return (math.pi - 2.0 * math.asin(1.0 / index)) / (2.0 * math.pi * f_out) + 2.0 / f_carrier
     raise ValueError(f"unknown modulation {modulation!r}")
+
+
+def refresh_charge(capacitance, r_charge, t_refresh, deficit):
+    """Charge a refresh interval returns to a capacitor ``deficit`` volts short of full [C].
+
+    Through the charging path resistance R the deficit decays as e^(−t/RC):
+    ΔQ = C · D · (1 − e^(−t/(R·C))).
+
+    Parameters
+    ----------
+    capacitance : bootstrap capacitance [F]
+    r_charge : resistance of the charging path (diode and series resistor) [Ω]
+    t_refresh : time the low side conducts, the capacitor charging [s]
+    deficit : voltage the capacitor is short of V_cc − V_f at the start [V]
+
+    References
+    ----------
+    First-order RC charging (Horowitz & Hill, *The Art of Electronics*, 3rd ed., §1.4.2);
+    bootstrap refresh while the low side conducts: Mohan, Undeland & Robbins, 3rd ed., §23-4.
+    """
+    c, r, t, d = _a(capacitance), _a(r_charge), _a(t_refresh), _a(deficit)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        frac = np.where(r > 0, -np.expm1(-t / np.where(r > 0, r * c, 1.0)), np.where(t > 0, 1.0, 0.0))
+    return _out(c * d * np.maximum(frac, 0.0))
+
+
+def steady_refresh_deficit(q_cycle, capacitance, r_charge, t_refresh):
+    """Deficit the capacitor settles at when each period draws ``q_cycle`` and refreshes for
+    ``t_refresh`` [V].
+
+    Per period the deficit D grows by Q/C and the refresh leaves D·e^(−t/RC), so in the steady
+    state D = (Q/C) / (1 − e^(−t/(R·C))); infinite when there is no refresh time.
+
+    References
+    ----------
+    Fixed point of the per-period map D ← D·e^(−t/RC) + Q/C; Mohan, Undeland & Robbins, 3rd ed.,
+    §23-4 (bootstrap refresh).
+    """
+    q, c, r, t = _a(q_cycle), _a(capacitance), _a(r_charge), _a(t_refresh)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        frac = np.where(r > 0, -np.expm1(-t / np.where(r > 0, r * c, 1.0)), np.where(t > 0, 1.0, 0.0))
+        d = np.where(frac > 0, q / c / np.where(frac > 0, frac, 1.0), np.inf)
+    return _out(d)
+
+
+def shortest_refresh_time(modulation: Literal["square", "quasi_square", "spwm_bipolar",
+                                              "spwm_unipolar", "spwm_level_shifted"],
+                          f_out: float, t_dead: float = 0.0, notch_angle: float = 0.0,
+                          index: float | None = None, f_carrier: float | None = None) -> float:
+    """Shortest low-side on-time per switching period, the time the capacitor recharges [s].
+
+    - square: half a period less the dead time, 1/(2·f_out) − t_dead;
+    - quasi-square freewheeling on the low sides: (π + 2α)/(2π·f_out) − t_dead;
+    - sine PWM: at the highest index the high side is off for (1 − M)/(2·f_c) per carrier
+      period; at the reference's peak the load current flows out of the leg (for any load angle
+      below 90°), so the switch node sits at the low rail through the low channel or its diode
+      for all of that time, dead times included; zero at and beyond M = 1 (over-modulation
+      drops the low-side pulses: the capacitor is not refreshed there).
+
+    References
+    ----------
+    Holmes & Lipo, 2003, ch. 3 (duty (1 + M·sin θ)/2 of sine-triangle modulation).
+    """
+    if modulation == "square":
+        return max(1.0 / (2.0 * f_out) - t_dead, 0.0)
+    if modulation == "quasi_square":
+        return max((math.pi + 2.0 * notch_angle) / (2.0 * math.pi * f_out) - t_dead, 0.0)
+    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
+        if index is None or f_carrier is None:
+            raise ValueError("sine PWM needs a modulation index and a carrier frequency")
+        return max((1.0 - index) / (2.0 * f_carrier), 0.0)
+    raise ValueError(f"unknown modulation {modulation!r}")
