@@ -176,3 +176,20 @@ def test_tj_above_tj_max_at_one_corner_only_is_a_hazard():
     f = finding(r, "thermal.runaway[low]")
     assert (f.outcome, f.severity) == ("fail", "hazard")
     assert f.corner == (("switch.low.rth_ja", "max"),)
+
+
+def test_junction_peak_over_the_output_cycle_with_a_single_pole_zth():
+    # square wave at 50 Hz, each device conducting 10 ms of 20 ms; junction-to-case 1.5 K/W
+    # and τ = 5 ms on a 38.5 K/W sink path: peak = mean + P/0.5·R_jc·((1 − e^(−2))/(1 − e^(−4))
+    # − 0.5) (single-pole pulse train, see tests/physics/test_thermal.py)
+    parts = [("modulation", "kind", '"square"')]
+    for side in ("high", "low"):
+        parts += [(f"switch.{side}", "rth_ja", None), (f"switch.{side}", "rth_jc", '"1.5 K/W"'),
+                  (f"switch.{side}", "rth_sa", '"38.5 K/W"'), (f"switch.{side}", "zth_tau", '"5 ms"')]
+    r = review_text(bridge(*parts))
+    f = finding(r, "thermal.junction-peak[low]")
+    mean, p = r.sheet.value("thermal.low.tj"), r.sheet.value("thermal.low.power")
+    swing = p / 0.5 * 1.5 * ((1 - math.exp(-2)) / (1 - math.exp(-4)) - 0.5)
+    assert f.value == pytest.approx(mean + swing, rel=1e-6)
+    # no Z_th: needs data rather than a pass on the mean alone
+    assert finding(review_text(bridge()), "thermal.junction-peak[low]").outcome == "needs_data"

@@ -11,6 +11,7 @@ import math
 
 from reviewer.physics import thermal as tp
 from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.units import render
 
 TJ_MARGIN = 25.0
 """Margin below T_j,max the heatsink figure is solved for [°C]; the rule's default margin."""
@@ -35,6 +36,8 @@ QUANTITIES = declare(
     ("thermal.{side}.tj", "°C", "Junction temperature; not shown where no steady state at or "
      "below T_j,max exists"),
     ("thermal.{side}.verdict", "", "What the electro-thermal solution says", "text"),
+    ("thermal.{side}.tj_peak", "°C", "Peak junction temperature over the output cycle: the "
+     "mean plus the swing of a single-pole Z_th,jc while the device conducts"),
     ("thermal.{side}.rds_hot", "Ω", "R_DS(on) at the solved junction temperature"),
     ("thermal.{side}.runaway", "", "No steady junction temperature at or below T_j,max: "
      "thermal runaway or destruction", "flag"),
@@ -66,6 +69,7 @@ def derive(ctx: Ctx) -> None:
             "device_rms", "device_switched", "conduction_loss", "switching_loss", "diode_loss",
             "recovery_loss", "power", "rth", "tj", "verdict", "rds_hot", "runaway",
             "rth_total_max", "rth_sa_max")]
+        solved = None
         with ctx.section(*names):
             i_pk = ctx.q("op.load_current_peak")
             phi = ctx.q("thermal.load_angle")
@@ -129,6 +133,7 @@ def derive(ctx: Ctx) -> None:
                 ctx.publish(f"thermal.{side}.conduction_loss", sol.power - p_sw - p_d, FUNDAMENTAL)
                 ctx.publish(f"thermal.{side}.power", sol.power, FUNDAMENTAL)
                 ctx.publish(f"thermal.{side}.verdict", "a steady junction temperature exists")
+                solved = (sol.t_j, sol.power, tj_max)
             else:
                 ctx.publish(f"thermal.{side}.verdict",
                             f"no steady junction temperature at or below T_j,max "
@@ -142,3 +147,32 @@ def derive(ctx: Ctx) -> None:
             if jc is not None:
                 ctx.publish(f"thermal.{side}.rth_sa_max", total - jc - (ctx.v(f"{sw}.rth_cs") or 0.0),
                             f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")
+        if solved is not None:
+            with ctx.section(f"thermal.{side}.tj_peak"):
+                _peak(ctx, side, kind, *solved)
+
+
+def _peak(ctx: Ctx, side: str, kind: str, t_mean: float, power: float, tj_max: float) -> None:
+    """Publish the peak junction temperature over the output cycle, where Z_th is given."""
+    sw = f"switch.{side}"
+    tau, jc = ctx.v(f"{sw}.zth_tau"), ctx.v(f"{sw}.rth_jc")
+    if tau is None or jc is None:
+        raise NeedsData(f"{sw}.zth_tau", f"{sw}.rth_jc")
+    period = 1.0 / ctx.need("output.frequency")
+    share = 0.5
+    if kind == "quasi_square":
+        a = ctx.v("modulation.notch_angle") or 0.0
+        share = (math.pi - 2 * a) / (2 * math.pi) if side == "high" else (math.pi + 2 * a) / (2 * math.pi)
+    # the whole loss taken as one pulse while the device conducts (conservative: a sinusoid's
+    # loss is spread over the half cycle, and a quasi-square low side conducts in two parts)
+    swing = float(tp.pulse_temperature_swing(power / share, jc, tau, share * period, period))
+    peak = t_mean + swing
+    if peak > tj_max:
+        # never shown as a temperature: the part does not survive it
+        ctx.publish(f"thermal.{side}.runaway", True)
+        ctx.publish(f"thermal.{side}.verdict",
+                    f"a junction that peaks above T_j,max ({tj_max:g} °C) in every output cycle "
+                    f"(single-pole Z_th,jc, {render(tau, 's')}), which destroys the part")
+        raise NeedsData()
+    ctx.publish(f"thermal.{side}.tj_peak", peak,
+                f"mean {t_mean:.3g} °C plus {swing:.3g} K swing over {share:.0%} of the period")

@@ -383,6 +383,34 @@ def largest_sink_to_ambient(t_limit: float, t_ambient: float, rth_jc: float, rth
     return total - rth_jc - rth_cs
 
 
+def pulse_temperature_swing(p_on, rth, tau, t_on, period):
+    """Peak junction rise above its mean under a periodic power pulse, single-pole Z_th [K].
+
+    A single-pole thermal impedance Z(t) = R·(1 − e^(−t/τ)) driven by P_on for t_on in every
+    period T settles to a periodic temperature whose peak above the far end is
+    P_on·R·(1 − e^(−t_on/τ))/(1 − e^(−T/τ)) and whose mean is P_on·R·t_on/T; the swing is their
+    difference. It tends to 0 for τ ≫ T and to P_on·R·(1 − t_on/T) for τ ≪ t_on.
+
+    Parameters
+    ----------
+    p_on : power during the pulse [W]
+    rth : resistance of the pole (junction to case) [K/W]
+    tau : its time constant [s]
+    t_on : pulse length [s]
+    period : repetition period [s]
+
+    References
+    ----------
+    Superposition of step responses of a first-order thermal network over a periodic pulse
+    train; Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §29-3 (transient thermal
+    impedance; section from memory).
+    """
+    p, r, tau, ton, tp = (_a(x) for x in (p_on, rth, tau, t_on, period))
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        peak = p * r * -np.expm1(-ton / tau) / -np.expm1(-tp / tau)
+    return _out(np.maximum(peak - p * r * ton / tp, 0.0))
+
+
 def device_current(i_total, count, sharing_derating=0.2):
     """Current of the most heavily loaded of ``count`` paralleled devices [A].
 

@@ -251,3 +251,24 @@ def test_sine_pwm_switching_loss_per_device_against_numpy_edge_average():
     p_formula = float(th.switching_loss(v, th.switched_current("spwm_bipolar", i_pk, phi),
                                         t_sum, 0.0, fc))
     assert p_formula == pytest.approx(p_numeric, rel=0.01)
+
+
+@pytest.mark.parametrize("tau", [1e-3, 5e-3, 50e-3])
+def test_pulse_temperature_swing_against_time_stepping(tau):
+    # dT/dt = (P(t)·R − T)/τ stepped exactly per sample with numpy-free recursion over 40
+    # periods of a 10 ms pulse every 20 ms (50 Hz square); peak minus mean of the last period.
+    p, r, t_on, period = 10.0, 1.5, 10e-3, 20e-3
+    n = 4000
+    dt = period / n
+    k = math.exp(-dt / tau)
+    temp, trace = 0.0, []
+    for _ in range(40):
+        trace = []
+        for j in range(n):
+            drive = p * r if j < n // 2 else 0.0
+            temp = drive + (temp - drive) * k
+            trace.append(temp)
+    swing = max(trace) - float(np.mean(trace))
+    assert th.pulse_temperature_swing(p, r, tau, t_on, period) == pytest.approx(swing, rel=2e-3, abs=1e-3)
+    # limits: τ ≪ t_on → P·R·(1 − D); never negative
+    assert th.pulse_temperature_swing(p, r, 1e-6, t_on, period) == pytest.approx(p * r * 0.5, rel=1e-6)
