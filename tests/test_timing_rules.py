@@ -199,3 +199,25 @@ def test_shared_signal_makes_dead_time_zero_everywhere():
     assert r.sheet.value("thermal.low.diode_loss") == 0.0
     f = finding(r, "timing.shoot-through-peak[low]")
     assert f.outcome in ("fail", "needs_data") and f.outcome != "pass"
+
+
+def test_shared_signal_waveform_synthesis_ignores_the_dead_time_field():
+    # the synthesised bridge voltage with a shared signal equals the one with zero dead time
+    shared = review_text(bridge(("drive", "shared_signal", "true")))
+    zero = review_text(bridge(("timing", "dead_time", '"0 s"')))
+    for name in ("waveform.bridge_fundamental", "waveform.bridge_rms"):
+        assert shared.sheet.value(name) == pytest.approx(zero.sheet.value(name), rel=1e-12)
+    assert shared.sheet.value("waveform.bridge_fundamental") != review_text(
+        bridge(("timing", "dead_time", '"2 µs"'))).sheet.value("waveform.bridge_fundamental")
+
+
+def test_internal_gate_resistance_absent_is_stated_and_conservative_each_way():
+    # no rg_internal: 3 Ω for turn-off and dead time (slower), 0 Ω for the edges (faster)
+    r0 = review_text(bridge())                               # 0 Ω given
+    r = review_text(bridge(("switch.low", "rg_internal", None)))
+    assert r.sheet.value("switching.low.rg_internal_used") == 3.0
+    assert "3 Ω assumed" in r.sheet.get("switching.low.turn_off_time").note
+    assert r.sheet.value("switching.low.turn_off_time") == pytest.approx(
+        r0.sheet.value("switching.low.turn_off_time") * 13 / 10)   # RC forms linear in R: 13 Ω/10 Ω
+    # the dv/dt the high side sees comes from the low side's fastest (0 Ω) voltage fall
+    assert r.sheet.value("switching.high.dvdt") == pytest.approx(r0.sheet.value("switching.high.dvdt"))

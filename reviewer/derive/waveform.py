@@ -155,6 +155,8 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     dl = ctx.v("timing.dead_time_low")
     dh = dead if dh is None else dh
     dl = dead if dl is None else dl
+    if ctx.v("drive.shared_signal"):
+        dh = dl = 0.0  # one signal and its inverse feed the leg: timing.dead_time has no effect
     min_pulse = ctx.v("modulation.min_pulse") or 0.0
     ratio = ctx.q("op.transformer_ratio")
     v_nom, v_min, v_max = ctx.q("op.bus_nom"), ctx.q("op.bus_min"), ctx.q("op.bus_max")
