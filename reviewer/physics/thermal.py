@@ -505,27 +505,48 @@ def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.
     raise ValueError(f"unknown modulation {modulation!r}")
 
 
-def square_edge_current(i_peak, phase=0.0):
-    """Load current at the edge of a square-wave bridge voltage into an R-L load [A].
+def stepped_edge_current(i_peak, phase=0.0, notch_angle=0.0):
+    """Load current at the turn-off edge of a square or quasi-square bridge voltage into R-L [A].
 
-    ±V into R-L settles to i_edge = (V/R)·tanh(T/(4τ)), τ = L/R. Written with the fundamental's
-    peak I_1 = (4/π)·V·cos φ/R and tan φ = ω·τ: i_edge = (π/4)·(I_1/cos φ)·tanh(π/(2·tan φ)),
-    which is V/R for a resistor (φ = 0): a square wave into a resistor switches V/R, not 0 A.
+    The bridge applies +V for (π − 2α), 0 for 2α, −V for (π − 2α), 0 for 2α. With
+    e₁ = e^(−t₁/τ) over the active interval and e₀ = e^(−t₀/τ) over the zero interval, the
+    periodic, half-wave antisymmetric solution has, at the end of the active interval,
+    i_b = (V/R)·(1 − e₁)/(1 + e₀·e₁) (and −e₀·i_b at its start), the largest current any switch
+    turns off. V/R follows from the fundamental's peak I₁ = (4/π)·V·cos α·cos φ/R. A resistor
+    (φ = 0) gives V/R, not 0 A; α = 0 gives the square wave's (V/R)·tanh(T/(4τ)).
 
     Parameters
     ----------
     i_peak : peak of the load current's fundamental [A]
     phase : load angle φ [rad], 0 ≤ φ < π/2
+    notch_angle : zero-interval half-angle α [rad]
 
     References
     ----------
-    Steady-state first-order response to a square wave (Mohan, Undeland & Robbins, *Power
-    Electronics*, 3rd ed., §8-3, square-wave inverter with R-L load; section from memory).
+    Piecewise first-order response of an R-L load to a stepped voltage (Mohan, Undeland &
+    Robbins, *Power Electronics*, 3rd ed., §8-3 and §8-4, square-wave and quasi-square
+    inverters; sections from memory).
     """
-    i, phi = _a(i_peak), np.abs(_a(phase))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        x = np.where(phi > 0, np.pi / (2.0 * np.tan(np.where(phi > 0, phi, 1.0))), np.inf)
-    return _out(np.pi / 4.0 * i / np.cos(phi) * np.tanh(x))
+    i, phi, a = _a(i_peak), np.abs(_a(phase)), _a(notch_angle)
+    v_over_r = np.pi / 4.0 * i / (np.cos(phi) * np.cos(a))
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        tan = np.tan(phi)
+        # times in units of 1/ω: t/τ = θ/tan φ
+        e1 = np.where(tan > 0, np.exp(-(np.pi - 2.0 * a) / np.where(tan > 0, tan, 1.0)), 0.0)
+        e0 = np.where(tan > 0, np.exp(-(2.0 * a) / np.where(tan > 0, tan, 1.0)), 0.0)
+    return _out(v_over_r * (1.0 - e1) / (1.0 + e0 * e1))
+
+
+def square_edge_current(i_peak, phase=0.0):
+    """Load current at the edge of a square-wave bridge voltage into an R-L load [A].
+
+    (V/R)·tanh(T/(4τ)): :func:`stepped_edge_current` with no zero interval.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §8-3 (from memory).
+    """
+    return stepped_edge_current(i_peak, phase, 0.0)
 
 
 def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
@@ -535,9 +556,8 @@ def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0
     sine PWM: each device hard-switches only in its own half cycle (the other half it hands the
     current to, or takes it from, its own body diode: soft), so the mean over every carrier
     edge of the period is (1/2π)·∫ max(i, 0) dθ = I_pk/π (the whole leg's is 2·I_pk/π), for any
-    load angle; square: the actual current at the edge, :func:`square_edge_current`;
-    quasi-square: the fundamental at the edges α and π − α, I_pk·(|sin(α − φ)| + |sin(α + φ)|)/2
-    (the stepped current is not synthesised here).
+    load angle; square and quasi-square: the actual current at the edge of the stepped
+    waveform into the R-L load, :func:`stepped_edge_current` (the larger edge, conservative).
 
     References
     ----------
@@ -547,7 +567,7 @@ def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0
     if modulation == "square":
         return float(square_edge_current(i, phi))
     if modulation == "quasi_square":
-        return i * (abs(math.sin(a - phi)) + abs(math.sin(a + phi))) / 2
+        return float(stepped_edge_current(i, phi, a))
     if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
         return i / math.pi
     raise ValueError(f"unknown modulation {modulation!r}")

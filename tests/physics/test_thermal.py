@@ -272,3 +272,29 @@ def test_pulse_temperature_swing_against_time_stepping(tau):
     assert th.pulse_temperature_swing(p, r, tau, t_on, period) == pytest.approx(swing, rel=2e-3, abs=1e-3)
     # limits: τ ≪ t_on → P·R·(1 − D); never negative
     assert th.pulse_temperature_swing(p, r, 1e-6, t_on, period) == pytest.approx(p * r * 0.5, rel=1e-6)
+
+
+@pytest.mark.parametrize("phi, alpha", [(0.0, 0.4), (0.5, 0.4), (1.0, 0.2), (0.7, 0.0)])
+def test_stepped_edge_current_against_time_domain(phi, alpha):
+    # quasi-square ±1 V with zero intervals 2α into R = 1 Ω, L = tan φ/ω, stepped exactly per
+    # sample for several periods: the current at the end of the +V interval.
+    w = 2 * math.pi * 50.0
+    r, l_ = 1.0, math.tan(phi) / w
+    i1 = 4 / math.pi * math.cos(alpha) / math.hypot(r, w * l_)
+    if phi == 0.0:
+        edge = 1.0
+    else:
+        n = 20000
+        dt = 1 / 50.0 / n
+        k = math.exp(-r * dt / l_)
+        i = 0.0
+        theta = (np.arange(n) + 1) * 2 * math.pi / n
+        v = np.where((theta > alpha) & (theta <= math.pi - alpha), 1.0,
+                     np.where((theta > math.pi + alpha) & (theta <= 2 * math.pi - alpha), -1.0, 0.0))
+        end = int(round((math.pi - alpha) / (2 * math.pi) * n)) - 1
+        for _ in range(6):
+            for j in range(n):
+                i = v[j] / r + (i - v[j] / r) * k
+                if j == end:
+                    edge = i
+    assert th.stepped_edge_current(i1, phi, alpha) == pytest.approx(edge, rel=2e-3)
