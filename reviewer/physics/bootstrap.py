@@ -187,29 +187,9 @@ def refresh_charge(capacitance, r_charge, t_refresh, deficit):
     return _out(c * d * np.maximum(frac, 0.0))
 
 
-def steady_refresh_deficit(q_cycle, capacitance, r_charge, t_refresh):
-    """Deficit the capacitor settles at when each period draws ``q_cycle`` and refreshes for
-    ``t_refresh`` [V].
-
-    Per period the deficit D grows by Q/C and the refresh leaves D·e^(−t/RC), so in the steady
-    state D = (Q/C) / (1 − e^(−t/(R·C))); infinite when there is no refresh time.
-
-    References
-    ----------
-    Fixed point of the per-period map D ← D·e^(−t/RC) + Q/C; Mohan, Undeland & Robbins, 3rd ed.,
-    §23-4 (bootstrap refresh).
-    """
-    q, c, r, t = _a(q_cycle), _a(capacitance), _a(r_charge), _a(t_refresh)
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        frac = np.where(r > 0, -np.expm1(-t / np.where(r > 0, r * c, 1.0)), np.where(t > 0, 1.0, 0.0))
-        d = np.where(frac > 0, q / c / np.where(frac > 0, frac, 1.0), np.inf)
-    return _out(d)
-
-
 def shortest_refresh_time(modulation: Literal["square", "quasi_square", "spwm_bipolar",
                                               "spwm_unipolar", "spwm_level_shifted"],
-                          f_out: float, t_dead: float = 0.0, notch_angle: float = 0.0,
-                          index: float | None = None, f_carrier: float | None = None) -> float:
+                          f_out, t_dead=0.0, notch_angle=0.0, index=None, f_carrier=None):
     """Shortest low-side on-time per switching period, the time the capacitor recharges [s].
 
     - square: half a period less the dead time, 1/(2·f_out) − t_dead;
@@ -225,11 +205,12 @@ def shortest_refresh_time(modulation: Literal["square", "quasi_square", "spwm_bi
     Holmes & Lipo, 2003, ch. 3 (duty (1 + M·sin θ)/2 of sine-triangle modulation).
     """
     if modulation == "square":
-        return max(1.0 / (2.0 * f_out) - t_dead, 0.0)
+        return _out(np.maximum(0.5 / _a(f_out) - _a(t_dead), 0.0))
     if modulation == "quasi_square":
-        return max((math.pi + 2.0 * notch_angle) / (2.0 * math.pi * f_out) - t_dead, 0.0)
+        return _out(np.maximum((np.pi + 2.0 * _a(notch_angle)) / (2.0 * np.pi * _a(f_out))
+                               - _a(t_dead), 0.0))
     if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
         if index is None or f_carrier is None:
             raise ValueError("sine PWM needs a modulation index and a carrier frequency")
-        return max((1.0 - index) / (2.0 * f_carrier), 0.0)
+        return _out(np.maximum((1.0 - _a(index)) / (2.0 * _a(f_carrier)), 0.0))
     raise ValueError(f"unknown modulation {modulation!r}")

@@ -100,3 +100,14 @@ def test_spwm_on_time_against_carrier_comparison(m):
         # Overmodulation: at least the core interval, at most the bound.
         core = (math.pi - 2 * math.asin(1 / m)) / (2 * math.pi * f0)
         assert core <= sim <= model
+
+
+def test_refresh_charge_and_shortest_refresh_by_hand_and_on_arrays():
+    from reviewer.physics import bootstrap as b
+    # C·D·(1 − e^(−t/RC)): 1 µF, 1.3 V deficit, 2.5 µs through 1 Ω → 1.3 µC·(1 − e^(−2.5))
+    assert b.refresh_charge(1e-6, 1.0, 2.5e-6, 1.3) == pytest.approx(1.3e-6 * (1 - math.exp(-2.5)))
+    assert b.refresh_charge(1e-6, 1.0, 0.0, 1.3) == 0.0
+    # (1 − M)/(2 f_c): 0.9 at 20 kHz → 2.5 µs; over-modulation → 0; square: half period − dead
+    out = b.shortest_refresh_time("spwm_unipolar", 50.0, index=np.array([0.9, 1.0, 1.2]), f_carrier=20e3)
+    np.testing.assert_allclose(out, [2.5e-6, 0.0, 0.0])
+    assert b.shortest_refresh_time("square", 50.0, t_dead=1e-6) == pytest.approx(10e-3 - 1e-6)

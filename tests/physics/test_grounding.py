@@ -38,3 +38,13 @@ def test_layout_targets_solve_the_inequality():
     t_min = g.min_transition_time(10.0, 20e-9, 30.0)
     assert t_min == pytest.approx(60e-9)
     assert g.switching_overshoot(20e-9, 30.0, t_min) == pytest.approx(10.0)
+
+
+def test_avalanche_energy_unclamped_inductive_form():
+    from reviewer.physics import grounding as g
+    # ½·L·I²·V_BR/(V_BR − V_bus): 10 nH, 20 A, 40 V rating, 14.8 V bus, peak 60 V
+    e = g.avalanche_energy(10e-9, 20.0, 40.0, 14.8, 60.0)
+    assert e == pytest.approx(0.5 * 10e-9 * 400 * 40 / (40 - 14.8))
+    # no avalanche below the rating; a bus at the rating cannot be blocked at all
+    assert g.avalanche_energy(10e-9, 20.0, 40.0, 14.8, 39.0) == 0.0
+    assert g.avalanche_energy(10e-9, 20.0, 40.0, 40.0, 60.0) == float("inf")

@@ -331,3 +331,10 @@ def test_charge_capacitances():
     assert lo == pytest.approx(3e-9) and hi == pytest.approx(3e-9)
     # missing data: C_iss both ways
     assert sw.charge_capacitances(2.5e-9) == (2.5e-9, 2.5e-9)
+
+
+def test_effective_dead_time_budget():
+    # 500 ns − 20 ns − 15 ns − 10 ns = 455 ns; never below zero; arrays element by element
+    assert sw.effective_dead_time(500e-9, 20e-9, 15e-9, 10e-9) == pytest.approx(455e-9)
+    assert sw.effective_dead_time(20e-9, 30e-9) == 0.0
+    np.testing.assert_allclose(sw.effective_dead_time(np.array([100e-9, 5e-9]), 10e-9), [90e-9, 0.0])

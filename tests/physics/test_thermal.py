@@ -298,3 +298,10 @@ def test_stepped_edge_current_against_time_domain(phi, alpha):
                 if j == end:
                     edge = i
     assert th.stepped_edge_current(i1, phi, alpha) == pytest.approx(edge, rel=2e-3)
+
+
+def test_recovery_current_and_loss_by_hand():
+    # triangular recovery: Q_rr = ½·I_rr·t_rr → I_rr = 2·30 nC/40 ns = 1.5 A
+    assert th.recovery_peak_current(30e-9, 40e-9) == pytest.approx(1.5)
+    # Q_rr·V·f·share: 30 nC · 48 V · 20 kHz · ½ = 14.4 mW
+    assert th.recovery_loss(30e-9, 48.0, 20e3, 0.5) == pytest.approx(14.4e-3)
