@@ -146,3 +146,20 @@ def test_turn_on_peak_with_recovery_against_the_pulsed_rating():
     f = finding(review_text(CAREFUL.replace('id_pulse = "300 A"', 'id_pulse = "12 A"', 1)),
                 "stress.peak-current[high]")
     assert (f.outcome, f.severity) == ("fail", "hazard")
+
+
+def test_mains_example_tail_alone_gives_hundreds_of_volts_and_a_source_inductance_bounds_it():
+    mains = example("mains_output_transformer").read_text(encoding="utf-8")
+    def with_ls(ls: str) -> str:
+        return mains.replace('current_fall_time = "30 ns"   # datasheet t_f',
+                             f'common_source_inductance = "{ls}"')
+    # L_s = 0: the gate-charge current fall alone, well under a nanosecond: hundreds of volts
+    # over the 6 nH loop, no usable figure (the reason a bound is required)
+    r = review_text(with_ls("0 H"))
+    assert r.sheet.get("stress.high.overshoot").hi > 200.0
+    # 2 nH of common-source inductance: di/dt ≈ (V_pl − V_off)/(L_s + R·C/g_fs), a few ns
+    r = review_text(with_ls("2 nH"))
+    t = r.sheet.value("switching.high.current_fall")
+    assert 3e-9 < t < 10e-9
+    assert r.sheet.value("stress.high.overshoot") == pytest.approx(
+        6e-9 * r.sheet.value("op.load_current_peak") / t)
