@@ -193,3 +193,20 @@ def test_junction_peak_over_the_output_cycle_with_a_single_pole_zth():
     assert f.value == pytest.approx(mean + swing, rel=1e-6)
     # no Z_th: needs data rather than a pass on the mean alone
     assert finding(review_text(bridge()), "thermal.junction-peak[low]").outcome == "needs_data"
+
+
+def test_a_peak_above_tj_max_in_every_cycle_is_destruction():
+    # τ = 10 µs ≪ the 10 ms conduction: the junction follows the pulse, peak ≈ T_case + 2·P·R_jc
+    # while the mean is T_case + P·R_jc (single-pole pulse train, τ ≪ t_on): with P·R_jc near
+    # 65 K the mean stays below 150 °C and the peak passes it
+    parts = [("modulation", "kind", '"square"')]
+    for side in ("high", "low"):
+        parts += [(f"switch.{side}", "rth_ja", None), (f"switch.{side}", "rth_jc", '"300 K/W"'),
+                  (f"switch.{side}", "rth_sa", '"1 K/W"'), (f"switch.{side}", "zth_tau", '"10 µs"')]
+    r = review_text(bridge(*parts))
+    mean, p = r.sheet.value("thermal.low.tj"), r.sheet.value("thermal.low.power")
+    assert mean < 150.0 and mean + p * 300.0 > 150.0
+    f = finding(r, "thermal.runaway[low]")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    assert "peaks above T_j,max" in f.mitigation
+    assert all(t <= 150.0 for t in _temperatures_in(r))
