@@ -338,3 +338,27 @@ def test_effective_dead_time_budget():
     assert sw.effective_dead_time(500e-9, 20e-9, 15e-9, 10e-9) == pytest.approx(455e-9)
     assert sw.effective_dead_time(20e-9, 30e-9) == 0.0
     np.testing.assert_allclose(sw.effective_dead_time(np.array([100e-9, 5e-9]), 10e-9), [90e-9, 0.0])
+
+
+def test_new_physics_accepts_arrays_element_by_element():
+    # one element per corner: each array result equals the scalar results
+    from reviewer.physics import bootstrap as bs
+    from reviewer.physics import gate as gp
+    from reviewer.physics import grounding as gr
+    from reviewer.physics import thermal as th
+    r = np.array([5.0, 10.0, 20.0])
+    cases = [
+        (lambda x: sw.plateau_time(QGD, 7.0, x, 0.5), r),
+        (lambda x: sw.current_edge_time(10.0, 2.0, 5e-9, x, CISS, 50.0), r),
+        (lambda x: sw.current_rise_time(x, CISS, VDR, VTH, VPL), r),
+        (lambda x: sw.charge_capacitances(CISS, 40e-9, 12e-9, 10e-9, x / 4, 10.0)[1], r),
+        (lambda x: th.stepped_edge_current(10.0, x / 40, 0.3), r),
+        (lambda x: th.pulse_temperature_swing(x, 1.5, 5e-3, 10e-3, 20e-3), r),
+        (lambda x: gp.vth_hot_estimate(x / 5, 175.0), r),
+        (lambda x: bs.refresh_charge(1e-6, x, 2.5e-6, 1.3), r),
+        (lambda x: gr.avalanche_energy(10e-9, x, 40.0, 14.8, 60.0), r),
+    ]
+    for f, xs in cases:
+        out = np.asarray(f(xs))
+        assert out.shape == xs.shape
+        np.testing.assert_allclose(out, [f(float(x)) for x in xs])
