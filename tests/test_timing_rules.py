@@ -221,3 +221,15 @@ def test_internal_gate_resistance_absent_is_stated_and_conservative_each_way():
         r0.sheet.value("switching.low.turn_off_time") * 13 / 10)   # RC forms linear in R: 13 Ω/10 Ω
     # the dv/dt the high side sees comes from the low side's fastest (0 Ω) voltage fall
     assert r.sheet.value("switching.high.dvdt") == pytest.approx(r0.sheet.value("switching.high.dvdt"))
+
+
+def test_charge_data_size_the_intervals_instead_of_c_iss():
+    # Q_gs 15 nC to the 5 V plateau: 3 nF below it; (40 − 15 − 10) nC over 10 − 5 V (Q_g given
+    # at the R_DS(on) drive, 10 V): 3 nF above it. With the 10 Ω loop, R·C = 30 ns both ways:
+    # t_d(on) = 30 ns·ln(12/9), t_d(off) = 30 ns·ln(12/5) at the peak-current plateau.
+    r = review_text(bridge(("switch.low", "qgs", '"15 nC"')))
+    assert r.sheet.value("switching.low.td_on") == pytest.approx(30e-9 * math.log(12 / 9), rel=1e-9)
+    assert r.sheet.value("switching.low.td_off") == pytest.approx(30e-9 * math.log(12 / 5), rel=1e-9)
+    # Q_g at 12 V instead: (40 − 25) nC / 7 V = 2.143 nF above the plateau
+    r = review_text(bridge(("switch.low", "qgs", '"15 nC"'), ("switch.low", "qg_vgs", '"12 V"')))
+    assert r.sheet.value("switching.low.td_off") == pytest.approx(10 * 15e-9 / 7 * math.log(12 / 5), rel=1e-9)
