@@ -42,8 +42,10 @@ class Source(Part):
     chemistry: Literal["lead_acid", "lithium_ion", "lifepo4", "nimh", "other"] | None = None
     v_nom: V = Field(description="Nominal bus voltage.")
     v_min: V | None = Field(None, description="Lowest bus voltage in service (end of discharge).")
-    v_max: V | None = Field(None, description="Highest bus voltage (a lead-acid battery charging "
-                            "sits near 14.4–14.8 V: common practice).")
+    v_max: V | None = Field(None, description="Highest DC (mean) bus voltage in service (a "
+                            "lead-acid battery charging sits near 14.4–14.8 V: common practice). "
+                            "When not given it is taken from the chemistry (values from memory) "
+                            "or the review asks for it.")
     r_internal: OHM | None = Field(None, description="Source internal resistance.")
     i_short: A | None = Field(None, description="Prospective short-circuit current of the source.")
     ripple: PCT | None = Field(None, description="Ripple of a DC source, rms over mean.")
@@ -183,9 +185,16 @@ class Filter(Part):
 
     inductance: H | None = None
     inductor_isat: A | None = None
-    inductor_dcr: OHM | None = None
+    inductor_dcr: OHM | None = Field(None, description="Winding (DC) resistance of the inductor; "
+                                     "when not given the review assumes an inductor Q of 50 at "
+                                     "the corner (common practice) and says so.")
     capacitance: F | None = None
     capacitor_voltage: V | None = None
+    capacitor_esr: OHM | None = Field(None, description="Equivalent series resistance of the "
+                                      "filter capacitor; when not given a capacitor Q of 200 at "
+                                      "the corner is assumed (common practice for film).")
+    capacitor_ripple_rating: A | None = Field(None, description="RMS current rating of the "
+                                              "filter capacitor at its working frequency.")
     capacitor_kind: Literal["film", "ceramic", "electrolytic"] = "film"
     damping_resistance: OHM | None = None
     damping_capacitance: F | None = None
@@ -199,6 +208,13 @@ class Fuse(Part):
     speed: Literal["fast", "medium", "slow"] | None = None
     standard: Literal["ul248", "iec60127", "automotive", "other"] = "other"
     distance: M | None = Field(None, description="Conductor length from the battery terminal.")
+    i2t_melting: Q("A²s") | None = Field(None, description="Pre-arcing (melting) I²t of the fuse, "
+                                         "from its data sheet.")
+    i2t_clearing: Q("A²s") | None = Field(None, description="Total clearing I²t of the fuse at "
+                                          "its rated voltage and breaking current.")
+    ambient_factor: RATIO | None = Field(None, description="Fuse maker's rerating factor at the "
+                                         "design's ambient temperature; when not given a typical "
+                                         "curve for the fuse standard is used (from memory).")
 
 
 class Wiring(Part):
@@ -209,8 +225,14 @@ class Wiring(Part):
 
 class Protection(Part):
     reverse_polarity: Literal["none", "series_diode", "p_mosfet", "relay", "fuse_only"] | None = None
-    overcurrent_threshold: A | None = None
-    overcurrent_response: S | None = None
+    overcurrent_threshold: A | None = Field(None, description="Current at which the overcurrent "
+                                            "protection trips (peak switch or inductor current).")
+    overcurrent_response: S | None = Field(None, description="Detection and turn-off time once "
+                                           "the threshold is crossed.")
+    overcurrent_blanking: S = Field(_x(0.0), description="Blanking time before the detector "
+                                    "acts (default 0), added to the response.")
+    precharge_resistance: OHM | None = Field(None, description="Series resistance that limits "
+                                             "the inrush into the bulk capacitors on connection.")
     tvs_standoff: V | None = None
     tvs_clamp: V | None = None
     snubber: bool | None = None
@@ -220,6 +242,12 @@ class Protection(Part):
 
 class Isolation(Part):
     touchable: list[str] = Field(default_factory=list, description="Parts a person can touch.")
+    protective_class: Literal["I", "II", "III"] | None = Field(
+        None, description="Protective class the design declares (IEC 61140): I, protective earth "
+        "on accessible conductive parts (basic insulation to them); II, double or reinforced "
+        "insulation throughout; III, extra-low voltage only. Not given: class II is assumed.")
+    barrier_on_board: bool = Field(False, description="The barrier's creepage path lies on the "
+                                   "printed board only (printed-wiring columns of IEC 60664-1).")
     insulation: Literal["none", "functional", "basic", "reinforced"] | None = None
     working_voltage: V | None = None
     test_voltage: V | None = None
@@ -228,7 +256,8 @@ class Isolation(Part):
     pollution_degree: Literal[1, 2, 3, 4] = 2
     overvoltage_category: Literal["I", "II", "III", "IV"] = "II"
     material_group: Literal["I", "II", "IIIa", "IIIb"] = "IIIb"
-    coating: bool = False
+    coating: bool = Field(False, description="The board carries a conformal coating over the "
+                          "barrier (IEC 60664-3 treatment not applied: see the finding).")
     altitude: M = _x(0.0)
 
 
