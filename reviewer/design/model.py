@@ -246,6 +246,9 @@ class Isolation(Part):
         None, description="Protective class the design declares (IEC 61140): I, protective earth "
         "on accessible conductive parts (basic insulation to them); II, double or reinforced "
         "insulation throughout; III, extra-low voltage only. Not given: class II is assumed.")
+    touchable_earthed: bool = Field(False, description="Every touchable conductive part across "
+                                    "the barrier is bonded to protective earth (class I), so the "
+                                    "barrier is to earthed parts.")
     barrier_on_board: bool = Field(False, description="The barrier's creepage path lies on the "
                                    "printed board only (printed-wiring columns of IEC 60664-1).")
     insulation: Literal["none", "functional", "basic", "reinforced"] | None = None
@@ -264,7 +267,12 @@ class Isolation(Part):
 class Grounding(Part):
     scheme: Literal["single_point", "plane", "unspecified"] = "unspecified"
     gate_return: Literal["kelvin", "shared"] | None = None
-    shunt: Literal["low_side", "high_side", "none"] | None = None
+    shunt: Literal["low_side", "high_side", "none"] | None = Field(
+        None, description="Where the current shunt sits; on a bus beyond extra-low voltage its "
+        "signal must cross the barrier (see shunt_isolated).")
+    shunt_isolated: bool | None = Field(None, description="The shunt's signal reaches the "
+                                        "controller through an isolated amplifier or sensor "
+                                        "rated for the barrier.")
     protective_earth: bool | None = None
     enclosure: Literal["metal", "plastic", "none"] | None = None
     heatsink: Literal["insulated", "drain", "grounded", "none"] | None = None
