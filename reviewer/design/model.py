@@ -58,6 +58,9 @@ class Output(Part):
                              "(default ±10 %: common practice).")
     thd_target: PCT = Field(_x(0.08), description="Target voltage THD after the filter "
                             "(default 8 %, EN 50160 / IEC 62040-3).")
+    thd_orders: Literal["all", "40"] = Field(
+        "all", description="Which components the THD target counts: 'all' resolved components "
+        "(carrier groups included, the default) or harmonics to the '40'th (EN 50160).")
     transformer_ratio: RATIO | None = Field(None, description="Output transformer turns ratio, "
                                             "load side over bridge side, if there is one.")
 
