@@ -85,6 +85,9 @@ QUANTITIES += declare(
         (f"spectrum.group{m}.relative", "%", f"Carrier group {m} at the load over the fundamental"),
         (f"spectrum.group{m}.phase", "rad", f"Phase of the largest component of carrier group {m}"))],
     ("waveform.output_thd_judged", "%", "Distortion at the load over the orders the target counts"),
+    ("waveform.bridge_dc_offset", "V", "DC (mean) of the bridge voltage at the highest bus: a volt-second imbalance"),
+    ("waveform.dc_offset_relative", "%", "Bridge DC offset over its RMS fundamental"),
+    ("waveform.transformer_dc_current", "A", "DC current the offset drives through the transformer winding"),
 )
 
 
@@ -239,6 +242,20 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     ctx.publish("waveform.output_thd", wf.thd_band(spec.freq, resp.v_out, f0))
     ctx.publish("waveform.output_thd_40", wf.thd_band(spec.freq, resp.v_out, f0, max_order=40))
     _spectrum_table(ctx, spec, resp, v_nom * ratio, kind)
+    dc_frac = abs(spec.v_dc) + (ctx.v("output.dc_offset") or 0.0)
+    offset = v_max * dc_frac
+    ctx.publish("waveform.bridge_dc_offset", offset,
+                "mean of the synthesised bridge voltage (dead time, minimum pulse) plus the "
+                "controller's output.dc_offset, at the highest bus")
+    if spec.fundamental_rms:
+        ctx.publish("waveform.dc_offset_relative", dc_frac / spec.fundamental_rms)
+    if ctx.v("output.transformer_ratio") is not None:
+        with ctx.section("waveform.transformer_dc_current"):
+            r_w = ctx.need("output.transformer_primary_resistance")
+            r_dc = r_w + (ctx.v("filter.inductor_dcr") or 0.0)
+            ctx.publish("waveform.transformer_dc_current", offset / r_dc,
+                        "the DC offset over the winding and inductor resistance (the source of "
+                        "a volt-second imbalance; the core saturates on its ampere-turns)")
     if ctx.v("output.thd_orders") == "40":
         ctx.publish("waveform.output_thd_judged", ctx.q("waveform.output_thd_40"),
                     "harmonics to the 40th, as the target counts them (EN 50160)")

@@ -63,6 +63,15 @@ class Output(Part):
         "(carrier groups included, the default) or harmonics to the '40'th (EN 50160).")
     transformer_ratio: RATIO | None = Field(None, description="Output transformer turns ratio, "
                                             "load side over bridge side, if there is one.")
+    transformer_primary_resistance: OHM | None = Field(
+        None, description="DC resistance of the transformer's bridge-side winding (with the "
+        "filter inductor's in series), which alone limits a DC offset's current.")
+    dc_offset: PCT = Field(_x(0.0), description="Largest mean voltage the controller may leave "
+                           "across the bridge (timer or sensing imbalance), as a fraction of the "
+                           "bus (default 0: only what the synthesis computes).")
+    transformer_dc_max: A | None = Field(
+        None, description="DC current in the bridge-side winding the transformer tolerates "
+        "before its core saturates (its maker's figure or a measurement).")
 
 
 class Load(Part):
