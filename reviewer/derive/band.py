@@ -87,6 +87,14 @@ def derive(ctx: Ctx) -> None:
     if given is not None:
         ripple, note = given, "as given (source.ripple)"
         peak, peak_note = band.dc_peak(v_max, ripple), "highest bus plus the crest of the given ripple"
+        if c is not None:
+            computed = band.bus_peak(v_max, rms_2f, sw_pp)
+            if computed > peak:
+                peak, peak_note = computed, "highest bus + " + "; ".join(notes) + (
+                    " (more than the given source.ripple)")
+            total_rms = math.sqrt(rms_2f**2 + (sw_pp / (2 * math.sqrt(3))) ** 2)
+            ripple = max(ripple, band.ripple_fraction(total_rms, v_min))
+            note = "the larger of the given source.ripple and the computed ripple"
     elif c is None:
         if kind in ("rectified_mains", "other"):
             ripple = UNFILTERED_RECTIFIER_RIPPLE
