@@ -161,3 +161,15 @@ def test_far_end_fault_against_the_fuse_speed(speed, multiple):
     for factor, outcome in ((0.999, "pass"), (1.001, "fail")):
         text = lead(length * factor).replace("[fuse]", f'[fuse]\nspeed = "{speed}"')
         assert finding(review_text(text), "protection.far-fault-clears").outcome == outcome
+
+
+@pytest.mark.parametrize("ambient,rating,outcome", [
+    ("30 °C", "50 A", "pass"),    # 8 AWG, 75 °C column: 50 A (Table 310.16)
+    ("45 °C", "41 A", "pass"),    # × 0.82 (Table 310.15(B)(1)(1), from memory) = 41 A
+    ("45 °C", "41.1 A", "fail"),
+])
+def test_wire_ampacity_corrected_for_the_ambient(ambient, rating, outcome):
+    text = design(rating=rating, wire="8 AWG") + f'\n[environment]\nambient = "{ambient}"\n'
+    f = finding(review_text(text.replace("[fuse]", '[fuse]\nambient_factor = "1"')),
+                "protection.wire-protected")
+    assert f.outcome == outcome

@@ -125,9 +125,18 @@ def _wire(ctx: Ctx, has_fuse: bool) -> None:
         limit = protection.wire_max_protection(area, temp)
         small = protection.small_conductor_gauge(area) if amp is None else None
         if amp is not None and limit is not None:
-            ctx.publish("protection.wire_ampacity", amp,
-                        "30 °C ambient, up to three current-carrying conductors together")
-            ctx.publish("protection.wire_max_fuse", limit, "its ampacity, and NEC 240.4(D) for 14–10 AWG")
+            ambient = ctx.v("environment.ambient")
+            factor = protection.ampacity_ambient_factor(ambient, temp)
+            if factor is None:
+                ctx.publish("protection.wire_table", "outside the table: the ambient is above "
+                            "NEC Table 310.15(B)(1)(1)")
+                raise NeedsData("environment.ambient")
+            amp_c = amp * factor
+            ctx.publish("protection.wire_ampacity", amp_c,
+                        f"Table 310.16 {amp:g} A × {factor:g} for {ambient:g} °C ambient (Table "
+                        "310.15(B)(1)(1), from memory), up to three current-carrying conductors")
+            ctx.publish("protection.wire_max_fuse", min(limit, amp_c),
+                        "its corrected ampacity, and NEC 240.4(D) for 14–10 AWG")
             ctx.publish("protection.wire_table", "NEC Table 310.16 and 240.4(D)")
         elif small is not None:
             max_fuse, continuous, conditions = protection.small_conductor(small)  # type: ignore[misc]

@@ -469,3 +469,31 @@ def clearing_multiple(speed: str | None) -> float:
     Typical fuse time-current curves (from memory); IEC 60127-2 distinguishes F and T types.
     """
     return CLEARING_MULTIPLE["slow" if speed is None else speed]
+
+
+def ampacity_ambient_factor(ambient: float, insulation_temp: float = 75.0) -> float | None:
+    """Correction of a Table 310.16 ampacity for an ambient above 30 °C.
+
+    Parameters
+    ----------
+    ambient : float
+        Air temperature around the conductor [°C].
+    insulation_temp : float
+        Temperature rating of the insulation [°C] (the column, as :func:`wire_ampacity`).
+
+    Returns
+    -------
+    float or None
+        The factor [unitless] (1 at or below 30 °C); ``None`` above the table or for insulation
+        below 60 °C.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, Table 310.15(B)(1)(1) (``reviewer/tables/nec_310_15_ambient.toml``,
+    from memory).
+    """
+    data = tables.load("nec_310_15_ambient")["data"]
+    col = _column(insulation_temp)
+    if col is None or ambient > data["ambient_upper"][-1]:
+        return None
+    return float(data["column"][col][tables.step_index(data["ambient_upper"], ambient)])
