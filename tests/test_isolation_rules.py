@@ -198,3 +198,16 @@ def test_within_elv_the_barrier_rules_do_not_apply():
                                   "naive_bench_pchannel", "nchannel_bootstrap_quasi"])
 def test_examples_isolation(name):
     assert_fails(review_file(example(name)), set(), area="isolation")
+
+
+def test_grades_per_boundary_and_double_insulation():
+    # class I with protective earth: basic to earthed parts, reinforced to unearthed ones
+    r = review_file(example("mains_output_transformer"))
+    assert r.sheet.value("isolation.required_to_earthed") == "basic"
+    assert r.sheet.value("isolation.required_to_unearthed") == "reinforced"
+    r = review_text(mains(protective_class='"II"'))
+    assert r.sheet.value("isolation.required_to_earthed") == "reinforced"
+    # double (basic + supplementary) counts as reinforced; supplementary alone as basic
+    assert finding(review_text(mains(insulation='"double"')), "isolation.grade").outcome == "pass"
+    assert finding(review_text(mains(insulation='"supplementary"')),
+                   "isolation.grade").outcome == "fail"

@@ -16,6 +16,8 @@ from reviewer.quantities import Ctx, declare
 QUANTITIES = declare(
     ("isolation.protective_class", "", "Protective class used (IEC 61140)", "text"),
     ("isolation.required", "", "Insulation grade a touchable part needs from the power side", "text"),
+    ("isolation.required_to_earthed", "", "Grade between hazardous parts and earthed accessible parts", "text"),
+    ("isolation.required_to_unearthed", "", "Grade between hazardous parts and unearthed accessible parts", "text"),
     ("isolation.grade_ok", "", "The insulation provided is at least the grade needed", "flag"),
     ("isolation.class_consistent", "", "The declared protective class fits the design", "flag"),
     ("isolation.working_voltage", "V", "Working voltage across the barrier, rms or DC"),
@@ -40,6 +42,10 @@ def derive(ctx: Ctx) -> None:
     ctx.publish("isolation.class_consistent", consistent)
     earthed = pclass == "I" and earth and bool(ctx.v("isolation.touchable_earthed"))
     required = spacing.required_insulation(beyond, earthed=earthed)
+    # per boundary: class I asks basic to earthed parts, class II double or reinforced throughout
+    ctx.publish("isolation.required_to_earthed",
+                spacing.required_insulation(beyond, earthed=pclass == "I" and earth))
+    ctx.publish("isolation.required_to_unearthed", spacing.required_insulation(beyond))
     ctx.publish("isolation.required", required,
                 "within extra-low voltage" if not beyond else
                 "class I: basic to earthed accessible parts" if earthed else

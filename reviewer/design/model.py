@@ -263,7 +263,10 @@ class Isolation(Part):
                                     "barrier is to earthed parts.")
     barrier_on_board: bool = Field(False, description="The barrier's creepage path lies on the "
                                    "printed board only (printed-wiring columns of IEC 60664-1).")
-    insulation: Literal["none", "functional", "basic", "reinforced"] | None = None
+    insulation: Literal["none", "functional", "basic", "supplementary", "double",
+                        "reinforced"] | None = Field(
+        None, description="Insulation between the power side and what a person can touch: "
+        "'double' is basic plus supplementary and counts as reinforced (IEC 61140).")
     working_voltage: V | None = None
     test_voltage: V | None = None
     creepage: M | None = None

@@ -23,6 +23,9 @@ from reviewer import tables
 MM = 1e-3
 MIL = 25.4e-6
 INSULATION_ORDER = ("none", "functional", "basic", "reinforced")
+INSULATION_EQUIVALENT = {"supplementary": "basic", "double": "reinforced"}
+"""Grades that count as another: supplementary insulation alone is one layer like basic; double
+insulation (basic plus supplementary) ranks with reinforced (IEC 61140:2016)."""
 
 
 def rated_impulse_voltage(system_voltage: float, category: str) -> float:
@@ -307,7 +310,8 @@ def insulation_sufficient(provided: str | None, required: str) -> bool:
     Parameters
     ----------
     provided : str or None
-        ``"none"``, ``"functional"``, ``"basic"``, ``"reinforced"`` or ``None`` (not stated).
+        ``"none"``, ``"functional"``, ``"basic"``, ``"supplementary"``, ``"double"``,
+        ``"reinforced"`` or ``None`` (not stated).
     required : str
         The grade required, from :func:`required_insulation`.
 
@@ -321,6 +325,7 @@ def insulation_sufficient(provided: str | None, required: str) -> bool:
     """
     if provided is None:
         return required in ("none", "functional")
+    provided = INSULATION_EQUIVALENT.get(provided, provided)
     return INSULATION_ORDER.index(provided) >= INSULATION_ORDER.index(required)
 
 
