@@ -135,3 +135,14 @@ def test_highest_bus_never_silently_nominal():
 ])
 def test_examples_band(name, expected):
     assert_fails(review_file(example(name)), expected, area="band")
+
+
+@pytest.mark.parametrize("v_max,outcome", [(120 - 1 / (2 * math.pi * 100 * 1e-3) - 1e-6, "pass"),
+                                           (120 - 1 / (2 * math.pi * 100 * 1e-3) + 1e-3, "fail")])
+def test_bus_band_on_the_computed_peak(v_max, outcome):
+    """The rectified bus above (1 A mean, 1 mF, 100 Hz): the crest adds √2 · 0.7071 · 1.5915 =
+    1.5915 V to the highest mean, so the 120 V ripple-free band (IEC 61140) is crossed at a
+    highest mean of 118.4085 V."""
+    f = finding(review_text(rectified("1 mF", v_max=f"{v_max} V")), "band.bus-elv")
+    assert f.limit == 120.0
+    assert (f.outcome, f.severity) == (outcome, "hazard")
