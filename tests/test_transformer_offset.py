@@ -46,3 +46,31 @@ def test_needs_the_winding_data_and_applies_only_with_a_transformer():
                    "waveform.transformer-dc").outcome == "not_applicable"
     assert finding(review_file(example("mains_output_transformer")),
                    "waveform.transformer-dc").outcome == "pass"
+
+
+def flux_design(b_max: str, turns: str = "20") -> str:
+    return bridge(("source", "v_max", '"12 V"'), ("output", "transformer_ratio", "10"),
+                  ("output", "v_rms", '"80 V"'), ("modulation", "kind", '"square"'),
+                  ("modulation", "index", None), ("modulation", "carrier", None),
+                  ("timing", "dead_time", '"0 s"'),
+                  ("output", "transformer_turns", turns),
+                  ("output", "transformer_core_area", '"40 cm²"'),
+                  ("output", "transformer_b_max", f'"{b_max}"'))
+
+
+def test_square_wave_flux_by_hand():
+    """An unfiltered square wave of ±12 V at 50 Hz: the flux swings by V·(T/2)/(N·A), so its
+    peak is V/(4·f·N·A) = 12 / (4 · 50 · 20 · 40e-4) = 0.75 T (Faraday's law). The bound adds
+    each harmonic's peak 4V/(nπ)/(2π·n·f·N·A): Σ 1/n² over odd n is π²/8, giving exactly the
+    same 0.75 T (the harmonics' flux peaks coincide for a square wave)."""
+    r = review_text(flux_design("1 T"))
+    assert r.sheet.value("waveform.transformer_flux") == pytest.approx(0.75, rel=1e-4)
+
+
+@pytest.mark.parametrize("b_max,outcome", [("0.7501 T", "pass"), ("0.749 T", "fail")])
+def test_flux_threshold(b_max, outcome):
+    f = finding(review_text(flux_design(b_max)), "waveform.transformer-flux")
+    assert f.outcome == outcome
+    if outcome == "fail":
+        # N scales the flux as 1/N: 20 · 0.75 / 0.749 turns
+        assert f.pass_value == pytest.approx(20 * 0.75 / 0.749, rel=1e-4)

@@ -88,6 +88,7 @@ QUANTITIES += declare(
     ("waveform.bridge_dc_offset", "V", "DC (mean) of the bridge voltage at the highest bus: a volt-second imbalance"),
     ("waveform.dc_offset_relative", "%", "Bridge DC offset over its RMS fundamental"),
     ("waveform.transformer_dc_current", "A", "DC current the offset drives through the transformer winding"),
+    ("waveform.transformer_flux", "T", "Peak flux density of the transformer core at the largest output (bound)"),
 )
 
 
@@ -262,6 +263,20 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     else:
         ctx.publish("waveform.output_thd_judged", ctx.q("waveform.output_thd"),
                     "every resolved component, inter-harmonics and carrier groups included")
+    if ctx.v("output.transformer_ratio") is not None:
+        with ctx.section("waveform.transformer_flux"):
+            n, area = ctx.need("output.transformer_turns", "output.transformer_core_area")
+            regulated = bool(ctx.v("modulation.regulated")) and target is not None
+            if regulated and resp.v_out[spec.fundamental_bin]:
+                # the controller may hold the output at the top of its tolerance
+                hi = (1 + ctx.need("output.v_tolerance")) * target
+                k = hi / (ratio * abs(resp.v_out[spec.fundamental_bin]) / math.sqrt(2))
+                how = "regulated at the top of the output tolerance"
+            else:
+                k, how = v_max, "open loop at the highest bus"
+            ctx.publish("waveform.transformer_flux",
+                        wf.peak_flux_density(spec.freq, k * resp.v_out, n, area),
+                        how + ", loaded; every component's flux added (an upper bound)")
     top = wf.largest_harmonics(spec.freq, resp.v_out, f0, count=1)
     if top:
         ctx.publish("waveform.largest_harmonic", top[0].relative)

@@ -69,6 +69,13 @@ class Output(Part):
     dc_offset: PCT = Field(_x(0.0), description="Largest mean voltage the controller may leave "
                            "across the bridge (timer or sensing imbalance), as a fraction of the "
                            "bus (default 0: only what the synthesis computes).")
+    transformer_turns: RATIO | None = Field(None, description="Turns of the transformer's "
+                                            "bridge-side winding, for the core flux.")
+    transformer_core_area: Q("m²") | None = Field(None, description="Effective cross-section "
+                                                  "of the transformer core, for the flux.")
+    transformer_b_max: Q("T") | None = Field(None, description="Peak flux density the core "
+                                             "takes before it saturates, at its working "
+                                             "temperature.")
     transformer_dc_max: A | None = Field(
         None, description="DC current in the bridge-side winding the transformer tolerates "
         "before its core saturates (its maker's figure or a measurement).")
