@@ -4,8 +4,6 @@ overcurrent threshold, lead drop (§3.8)."""
 
 from __future__ import annotations
 
-import math
-
 from reviewer.derive.band import source_resistance
 from reviewer.derive.bus import power_factor
 from reviewer.physics import bus, protection, wire
