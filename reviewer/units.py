@@ -52,6 +52,8 @@ UNITS: dict[str, Unit] = {
         _u("W/K", "watt per kelvin", "W/°C"),
         _u("V/s", "volt per second"),
         _u("A/s", "ampere per second"),
+        _u("A²s", "ampere squared second", "A2s", "A^2s", "A²·s", "A2·s"),
+        _u("T", "tesla", **{"mT": 1e-3}),
         _u("rad", "radian", **{"°": math.pi / 180, "deg": math.pi / 180}),
         _u("", "ratio", **{"%": 0.01, "ppm": 1e-6}),
         _u("%", "ratio shown as a percentage", **{"%": 0.01}),

@@ -23,7 +23,8 @@ PWM_KINDS = {"spwm_bipolar": "bipolar", "spwm_unipolar": "unipolar",
              "spwm_level_shifted": "unipolar"}
 
 
-def _power_factor(ctx: Ctx) -> float:
+def power_factor(ctx: Ctx) -> float:
+    """Displacement power factor of the load at the output frequency [unitless]."""
     kind = ctx.v("load.kind")
     if kind == "power_factor":
         return ctx.need("load.power_factor")
@@ -39,7 +40,7 @@ def derive(ctx: Ctx) -> None:
     ctx.publish("bus.pwm", pwm)
     with ctx.section("bus.power_factor", "bus.ripple_2f", "bus.ripple_switching",
                      "bus.ripple_current", "bus.voltage_ripple"):
-        pf = _power_factor(ctx)
+        pf = power_factor(ctx)
         ctx.publish("bus.power_factor", pf)
         i_dc = ctx.q("op.input_current")
         i_2f = bus.ripple_current_2f(i_dc, pf)
@@ -57,11 +58,11 @@ def derive(ctx: Ctx) -> None:
             i_sw, note = 0.0, "a stepped wave switches at the output frequency: all ripple is low-frequency"
         ctx.publish("bus.ripple_switching", i_sw, note)
         ctx.publish("bus.ripple_current", bus.capacitor_ripple_rms(i_2f, i_sw))
-        c = ctx.need("capacitors.bulk") + (ctx.v("capacitors.local") or 0.0)
-        esr = ctx.v("capacitors.esr") or 0.0
-        dv = bus.bus_voltage_ripple(i_2f, 2 * ctx.need("output.frequency"), c, esr)
-        ctx.publish("bus.voltage_ripple", bus.peak_to_peak(dv),
-                    "if the capacitors alone supply the 2·f ripple (a stiff battery shares it)")
+        ctx.need("capacitors.bulk")
+        ctx.publish("bus.voltage_ripple", bus.peak_to_peak(ctx.q("band.bus_ripple_2f")),
+                    "the 2·f ripple of the band module (one bus figure): " +
+                    ("carried by the capacitors alone" if ctx.v("source.kind") == "rectified_mains"
+                     else "shared with the source by impedance"))
     if pwm:
         with ctx.section("bus.switching_voltage_ripple"):
             c = ctx.need("capacitors.bulk") + (ctx.v("capacitors.local") or 0.0)

@@ -1,5 +1,12 @@
-"""Isolation from what a person can touch: the grade needed and the creepage and clearance for it
-(§3.10, IEC 60664-1 and IEC 61140)."""
+"""Isolation from what a person can touch: the grade each boundary needs and the creepage,
+clearance and test voltage for it (§3.10, IEC 60664-1 and IEC 61140).
+
+The grade follows the protective class the design declares: class I (protective earth), basic
+insulation between hazardous live parts and *earthed* accessible parts, double or reinforced to
+accessible parts that are not earthed; class II, double or reinforced throughout; not declared,
+class II is assumed. The working and system voltages are the largest the design can produce
+(``band.output_max``, ``band.bus_peak``), never less than a working voltage the design states.
+"""
 
 from __future__ import annotations
 
@@ -7,48 +14,84 @@ from reviewer.physics import spacing
 from reviewer.quantities import Ctx, declare
 
 QUANTITIES = declare(
+    ("isolation.protective_class", "", "Protective class used (IEC 61140)", "text"),
     ("isolation.required", "", "Insulation grade a touchable part needs from the power side", "text"),
+    ("isolation.required_to_earthed", "", "Grade between hazardous parts and earthed accessible parts", "text"),
+    ("isolation.required_to_unearthed", "", "Grade between hazardous parts and unearthed accessible parts", "text"),
     ("isolation.grade_ok", "", "The insulation provided is at least the grade needed", "flag"),
+    ("isolation.class_consistent", "", "The declared protective class fits the design", "flag"),
     ("isolation.working_voltage", "V", "Working voltage across the barrier, rms or DC"),
     ("isolation.system_voltage", "V", "Voltage of the hazardous circuit for the impulse category"),
     ("isolation.rated_impulse", "V", "Rated impulse voltage for the overvoltage category (Table F.1)"),
     ("isolation.clearance_needed", "m", "Clearance the barrier needs (IEC 60664-1 Table F.2)"),
     ("isolation.creepage_needed", "m", "Creepage the barrier needs (IEC 60664-1 Table F.4)"),
+    ("isolation.test_voltage_needed", "V", "AC test voltage of the barrier for its grade (IEC 60664-1, from memory)"),
+    ("isolation.shunt_crosses", "", "A current shunt on a hazardous bus feeds the controller", "flag"),
 )
 
 
 def derive(ctx: Ctx) -> None:
     beyond = bool(ctx.q("band.beyond_elv"))
-    earthed_only = False  # a list of touchable parts never proves that all of them are earthed metal
-    required = spacing.required_insulation(beyond, earthed=earthed_only)
+    declared = ctx.v("isolation.protective_class")
+    pclass = declared or "II"
+    ctx.publish("isolation.protective_class", pclass,
+                "as declared" if declared else "not declared: class II (double or reinforced "
+                "insulation throughout) assumed")
+    earth = bool(ctx.v("grounding.protective_earth"))
+    consistent = not (pclass == "III" and beyond) and not (pclass == "I" and beyond and not earth)
+    ctx.publish("isolation.class_consistent", consistent)
+    earthed = pclass == "I" and earth and bool(ctx.v("isolation.touchable_earthed"))
+    required = spacing.required_insulation(beyond, earthed=earthed)
+    # per boundary: class I asks basic to earthed parts, class II double or reinforced throughout
+    ctx.publish("isolation.required_to_earthed",
+                spacing.required_insulation(beyond, earthed=pclass == "I" and earth))
+    ctx.publish("isolation.required_to_unearthed", spacing.required_insulation(beyond))
     ctx.publish("isolation.required", required,
-                "beyond extra-low voltage: double or reinforced insulation for unearthed parts"
-                if beyond else "within extra-low voltage")
+                "within extra-low voltage" if not beyond else
+                "class I: basic to earthed accessible parts" if earthed else
+                f"class {pclass}: double or reinforced to accessible parts that are not earthed")
     ctx.publish("isolation.grade_ok",
                 spacing.insulation_sufficient(ctx.v("isolation.insulation"), required))
+    ctx.publish("isolation.shunt_crosses", bool(ctx.q("band.bus_beyond_elv"))
+                and ctx.v("grounding.shunt") in ("low_side", "high_side"))
     if not beyond:
         return
 
     given = ctx.v("isolation.working_voltage")
-    out_rms, bus_max = ctx.q("op.output_rms"), ctx.q("op.bus_max")
-    working = given if given is not None else max(out_rms, bus_max)
+    produced = max(ctx.q("band.output_max"), ctx.q("band.bus_peak"))
+    working = produced if given is None else max(given, produced)
     ctx.publish("isolation.working_voltage", working,
-                "as given" if given is not None else "the larger of the output rms and the highest bus")
-    system = max(out_rms, bus_max)
+                "the larger of the largest output rms and the bus peak" if given is None else
+                "as given" if given >= produced else
+                "the design produces more than the given working voltage: the larger is used")
+    system = produced
     ctx.publish("isolation.system_voltage", system,
-                "the output (or bus) voltage taken as the system voltage to earth for Table F.1")
+                "the largest output (or bus) voltage taken as the system voltage for Table F.1")
     grade = "reinforced" if required == "reinforced" else "basic"
+    on_board = bool(ctx.v("isolation.barrier_on_board"))
+    coated = bool(ctx.v("isolation.coating")) and on_board
     with ctx.section("isolation.rated_impulse", "isolation.clearance_needed",
-                     "isolation.creepage_needed"):
+                     "isolation.creepage_needed", "isolation.test_voltage_needed"):
         category = ctx.v("isolation.overvoltage_category")
         pd = ctx.v("isolation.pollution_degree")
+        pd_used = 1 if coated else pd
         ctx.publish("isolation.rated_impulse", spacing.rated_impulse_voltage(system, category))
-        clearance = spacing.clearance_required(system, category, pd, grade,
+        coat_note = ("; coated board: pollution degree 1 under the coating (IEC 60664-3 type 1 "
+                     "protection, from memory)" if coated else "")
+        clearance = spacing.clearance_required(system, category, pd_used, grade,
                                                ctx.v("isolation.altitude") or 0.0)
         ctx.publish("isolation.clearance_needed", clearance,
-                    f"{grade} insulation, overvoltage category {category}, pollution degree {pd}")
-        creepage = spacing.creepage_required(working, min(pd, 3), ctx.v("isolation.material_group"),
-                                             printed_wiring=False, insulation=grade)
+                    f"{grade} insulation, overvoltage category {category}, pollution degree "
+                    f"{pd_used}{coat_note}")
+        creepage = spacing.creepage_required(working, min(pd_used, 3),
+                                             ctx.v("isolation.material_group"),
+                                             printed_wiring=on_board, insulation=grade)
+        where = ("the printed-wiring columns: the barrier lies on the board only" if on_board
+                 else "the general (not printed-wiring) columns: the barrier may cross parts "
+                 "other than the board")
         ctx.publish("isolation.creepage_needed", spacing.creepage_needed(creepage, clearance),
-                    f"{grade}, the general (not printed-wiring) columns: the barrier may cross "
-                    "parts other than the board; never less than the clearance")
+                    f"{grade}, {where}; never less than the clearance{coat_note}")
+        ctx.publish("isolation.test_voltage_needed",
+                    spacing.ac_test_voltage(system, grade),
+                    f"{grade}: U_n + 1200 V for basic, twice that for reinforced (IEC 60664-1 "
+                    "5.3.3.2.3 and 6.1.3.4, from memory)")

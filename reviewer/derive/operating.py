@@ -4,12 +4,16 @@ from __future__ import annotations
 
 import math
 
+from reviewer import tables
+from reviewer.physics import band
 from reviewer.quantities import Ctx, declare
 
 QUANTITIES = declare(
     ("op.bus_min", "V", "Lowest bus voltage in service"),
     ("op.bus_nom", "V", "Nominal bus voltage"),
-    ("op.bus_max", "V", "Highest bus voltage"),
+    ("op.bus_max", "V", "Highest mean (DC) bus voltage"),
+    ("op.bus_max_assumed", "", "source.v_max was not given: the highest bus is assumed", "flag"),
+    ("op.bus_max_known", "", "The highest bus is given or follows from a named chemistry", "flag"),
     ("op.switching_frequency", "Hz", "Switching frequency of the bridge"),
     ("op.output_rms", "V", "RMS output voltage at the load (target, or the bridge's if none)"),
     ("op.load_power", "W", "Real power into the load"),
@@ -20,6 +24,26 @@ QUANTITIES = declare(
 )
 
 SQUARE_KINDS = ("square", "quasi_square")
+CELL_CHEMISTRIES = ("lead_acid", "lithium_ion", "lifepo4", "nimh")
+MAINS_TOLERANCE = 0.10
+"""Highest supply voltage over nominal for rectified mains: +10 % (IEC 60038 supply voltage
+tolerance, from memory)."""
+
+
+def _v_max_assumed(ctx: Ctx, v_nom: float) -> tuple[float, str]:
+    """The highest bus when source.v_max is not given, and the note that says how it was found."""
+    chem = ctx.v("source.chemistry")
+    if ctx.v("source.kind") == "battery" and chem in CELL_CHEMISTRIES:
+        row = tables.load("battery_chemistry")["chemistry"][chem]
+        return (band.chemistry_v_max(v_nom, row["cell_max"], row["cell_nominal_low"]),
+                f"source.v_max not given: {row['cell_max']:g} V per cell charging over "
+                f"{row['cell_nominal_low']:g} V nominal for {chem} (from memory); give it")
+    if ctx.v("source.kind") == "rectified_mains":
+        return (v_nom * (1 + MAINS_TOLERANCE),
+                "source.v_max not given: nominal + 10 % (IEC 60038 supply tolerance, from "
+                "memory); give it")
+    return v_nom, "source.v_max not given: taken as nominal, which a charging or adjustable " \
+        "source exceeds; give source.v_max"
 
 
 def derive(ctx: Ctx) -> None:
@@ -29,8 +53,15 @@ def derive(ctx: Ctx) -> None:
     ctx.publish("op.bus_nom", v_nom)
     ctx.publish("op.bus_min", v_min if v_min is not None else v_nom,
                 "" if v_min is not None else "source.v_min not given: taken as nominal")
-    ctx.publish("op.bus_max", v_max if v_max is not None else v_nom,
-                "" if v_max is not None else "source.v_max not given: taken as nominal")
+    assumed = v_max is None
+    if v_max is not None:
+        ctx.publish("op.bus_max", v_max)
+    else:
+        v_guess, note = _v_max_assumed(ctx, v_nom)
+        ctx.publish("op.bus_max", v_guess, note)
+    ctx.publish("op.bus_max_assumed", assumed)
+    ctx.publish("op.bus_max_known", ctx.v("source.v_max") is not None
+                or ctx.v("source.chemistry") in CELL_CHEMISTRIES)
     ratio = ctx.v("output.transformer_ratio") or 1.0
     ctx.publish("op.transformer_ratio", ratio)
 

@@ -45,7 +45,7 @@ def gate_source_range(ctx: Ctx, side: str, which: str, v_bus: float) -> tuple[fl
 
 
 def derive(ctx: Ctx) -> None:
-    v_max = ctx.q("op.bus_max")
+    v_max = ctx.q("band.bus_peak")  # the one bus peak (highest bus plus ripple) of derive/band.py
     for side in SIDES:
         polarity = ctx.v(f"switch.{side}.polarity")
         on = gate_source_range(ctx, side, "on_level", v_max)

@@ -35,6 +35,7 @@ QUANTITIES = declare(
     ("waveform.largest_harmonic_order", "", "Order (f / f_out) of that component"),
     ("waveform.output_at_bus_min", "V", "RMS at the load at the lowest bus, open loop"),
     ("waveform.output_at_bus_max", "V", "RMS at the load at the highest bus, open loop"),
+    ("waveform.output_at_bus_max_no_load", "V", "RMS at the output at the highest bus with the load removed, open loop"),
     ("waveform.output_low_limit", "V", "Lowest RMS output the tolerance allows"),
     ("waveform.output_high_limit", "V", "Highest RMS output the tolerance allows"),
     ("waveform.index_needed_bus_min", "", "Modulation index for the target output at the lowest bus"),
@@ -51,7 +52,15 @@ QUANTITIES = declare(
     ("filter.q_full_load", "", "Quality factor at full load, R·√(C/L)"),
     ("filter.peak_gain_no_load", "", "Largest gain of the filter with the load removed"),
     ("filter.ripple_pp", "A", "Largest peak-to-peak inductor ripple, highest bus"),
-    ("filter.inductor_peak", "A", "Peak inductor current, fundamental plus ripple"),
+    ("filter.inductor_peak", "A", "Peak inductor current, fundamental plus ripple, loaded or unloaded"),
+    ("filter.inductor_peak_loaded", "A", "Peak inductor current at full load"),
+    ("filter.inductor_peak_no_load", "A", "Peak inductor current with the load removed"),
+    ("filter.inductor_dcr", "Ω", "Inductor winding resistance used (given, or from an assumed Q)"),
+    ("filter.capacitor_esr", "Ω", "Filter capacitor ESR used (given, or from an assumed Q)"),
+    ("filter.gain_at_output", "", "Filter gain |H| at the output frequency, loaded"),
+    ("filter.gain_at_corner", "", "Filter gain |H| at the LC corner, loaded"),
+    ("filter.gain_at_carrier", "", "Filter gain |H| at the first carrier group, loaded"),
+    ("filter.capacitor_current_max", "A", "Largest RMS filter-capacitor current, loaded or unloaded"),
     ("filter.capacitor_peak", "V", "Peak capacitor voltage, loaded or unloaded"),
     ("filter.capacitor_current_rms", "A", "RMS capacitor current at the target output"),
     ("filter.l_for_thd", "H", "Inductance meeting the THD target (characteristic impedance held)"),
@@ -59,6 +68,28 @@ QUANTITIES = declare(
 )
 
 SQUARE_KINDS = ("square", "quasi_square")
+HARMONIC_ORDERS = 15
+"""Harmonics published one by one at the load (orders 1 to 15)."""
+CARRIER_GROUPS = 4
+"""Carrier sideband groups published at the load."""
+
+QUANTITIES += declare(
+    *[row for n in range(1, HARMONIC_ORDERS + 1) for row in (
+        (f"spectrum.h{n}.frequency", "Hz", f"Frequency of harmonic {n} at the load"),
+        (f"spectrum.h{n}.amplitude", "V", f"RMS of harmonic {n} at the load, nominal bus"),
+        (f"spectrum.h{n}.relative", "%", f"Harmonic {n} at the load over the fundamental"),
+        (f"spectrum.h{n}.phase", "rad", f"Phase of harmonic {n} at the load"))],
+    *[row for m in range(1, CARRIER_GROUPS + 1) for row in (
+        (f"spectrum.group{m}.frequency", "Hz", f"Frequency of the largest component of carrier group {m}"),
+        (f"spectrum.group{m}.amplitude", "V", f"RMS of carrier group {m} at the load, nominal bus"),
+        (f"spectrum.group{m}.relative", "%", f"Carrier group {m} at the load over the fundamental"),
+        (f"spectrum.group{m}.phase", "rad", f"Phase of the largest component of carrier group {m}"))],
+    ("waveform.output_thd_judged", "%", "Distortion at the load over the orders the target counts"),
+    ("waveform.bridge_dc_offset", "V", "DC (mean) of the bridge voltage at the highest bus: a volt-second imbalance"),
+    ("waveform.dc_offset_relative", "%", "Bridge DC offset over its RMS fundamental"),
+    ("waveform.transformer_dc_current", "A", "DC current the offset drives through the transformer winding"),
+    ("waveform.transformer_flux", "T", "Peak flux density of the transformer core at the largest output (bound)"),
+)
 
 
 @lru_cache(maxsize=256)
@@ -72,11 +103,12 @@ def spectrum(kind: str, f0: float, index: float | None, carrier: float | None, n
 
 @lru_cache(maxsize=256)
 def response(spec: wf.Spectrum, circuit: tuple[float, float, float, float | None, float,
-                                                float | None, float | None]) -> flt.FilterResponse:
+                                                float | None, float | None, float]) -> flt.FilterResponse:
     """The filter response to a cached spectrum (1 V bus), cached on the circuit values."""
-    l_, c_, dcr, r, l_load, rd, cd = circuit
+    l_, c_, dcr, r, l_load, rd, cd, esr = circuit
     return flt.respond(spec.freq, spec.amp, l_, c_, dcr=dcr, load_resistance=r,
-                       load_inductance=l_load, damping_resistance=rd, damping_capacitance=cd)
+                       load_inductance=l_load, damping_resistance=rd, damping_capacitance=cd,
+                       esr=esr)
 
 
 @lru_cache(maxsize=64)
@@ -97,8 +129,8 @@ def _corner_for_thd(spec: wf.Spectrum, target: float, z0: float, r: float | None
 @lru_cache(maxsize=64)
 def _carrier_for_thd(spec: wf.Spectrum, target: float,
                      circuit: tuple[float, float, float, float | None, float, float | None,
-                                    float | None]) -> float:
-    l_, c_, dcr, r, l_load, rd, cd = circuit
+                                    float | None, float]) -> float:
+    l_, c_, dcr, r, l_load, rd, cd, _esr = circuit
     return flt.carrier_for_thd(spec.freq, spec.amp, spec.f0, spec.carrier, target, l_, c_,
                                dcr=dcr, load_resistance=r, load_inductance=l_load,
                                damping_resistance=rd, damping_capacitance=cd)
@@ -167,14 +199,32 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     c_f = ctx.v("filter.capacitance") or 0.0
     filtered = l_f > 0 and c_f > 0
     ctx.publish("waveform.filtered", filtered)
-    circuit = (l_f, c_f, ctx.v("filter.inductor_dcr") or 0.0, r_b, l_b,
-               ctx.v("filter.damping_resistance"), ctx.v("filter.damping_capacitance"))
+    dcr, esr = ctx.v("filter.inductor_dcr"), ctx.v("filter.capacitor_esr")
+    loss_note = ""
+    if filtered:
+        assumed = []
+        if dcr is None:
+            dcr = flt.default_dcr(l_f, c_f)
+            assumed.append(f"inductor Q {flt.DEFAULT_INDUCTOR_Q:g} at the corner (no "
+                           "filter.inductor_dcr: undamped otherwise; give filter.inductor_dcr)")
+        if esr is None:
+            esr = flt.default_esr(l_f, c_f)
+            assumed.append(f"capacitor Q {flt.DEFAULT_CAPACITOR_Q:g} at the corner (no "
+                           "filter.capacitor_esr)")
+        loss_note = ("losses assumed: " + "; ".join(assumed)) if assumed else ""
+        ctx.publish("filter.inductor_dcr", float(dcr), loss_note if ctx.v("filter.inductor_dcr") is None else "as given")
+        ctx.publish("filter.capacitor_esr", float(esr), loss_note if ctx.v("filter.capacitor_esr") is None else "as given")
+    dcr = float(dcr or 0.0)
+    esr = float(esr or 0.0)
+    circuit = (l_f, c_f, dcr, r_b, l_b,
+               ctx.v("filter.damping_resistance"), ctx.v("filter.damping_capacitance"), esr)
     no_load = circuit[:3] + (None, 0.0) + circuit[5:]
     yin = (flt.shunt_admittance(f0, c_f, load_resistance=r_b, load_inductance=l_b,
-                                damping_resistance=circuit[5], damping_capacitance=circuit[6])
+                                damping_resistance=circuit[5], damping_capacitance=circuit[6],
+                                esr=esr)
            * flt.transfer(f0, l_f, c_f, dcr=circuit[2], load_resistance=r_b,
                           load_inductance=l_b, damping_resistance=circuit[5],
-                          damping_capacitance=circuit[6]))
+                          damping_capacitance=circuit[6], esr=esr))
     lag = round(-float(np.angle(yin)), 6)
     ctx.publish("waveform.current_lag", lag)
 
@@ -194,12 +244,50 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     ctx.publish("waveform.output_rms", v_nom * ratio * resp.v_out_rms)
     ctx.publish("waveform.output_thd", wf.thd_band(spec.freq, resp.v_out, f0))
     ctx.publish("waveform.output_thd_40", wf.thd_band(spec.freq, resp.v_out, f0, max_order=40))
+    _spectrum_table(ctx, spec, resp, v_nom * ratio, kind)
+    dc_frac = abs(spec.v_dc) + (ctx.v("output.dc_offset") or 0.0)
+    offset = v_max * dc_frac
+    ctx.publish("waveform.bridge_dc_offset", offset,
+                "mean of the synthesised bridge voltage (dead time, minimum pulse) plus the "
+                "controller's output.dc_offset, at the highest bus")
+    if spec.fundamental_rms:
+        ctx.publish("waveform.dc_offset_relative", dc_frac / spec.fundamental_rms)
+    if ctx.v("output.transformer_ratio") is not None:
+        with ctx.section("waveform.transformer_dc_current"):
+            r_w = ctx.need("output.transformer_primary_resistance")
+            r_dc = r_w + (ctx.v("filter.inductor_dcr") or 0.0)
+            ctx.publish("waveform.transformer_dc_current", offset / r_dc,
+                        "the DC offset over the winding and inductor resistance (the source of "
+                        "a volt-second imbalance; the core saturates on its ampere-turns)")
+    if ctx.v("output.thd_orders") == "40":
+        ctx.publish("waveform.output_thd_judged", ctx.q("waveform.output_thd_40"),
+                    "harmonics to the 40th, as the target counts them (EN 50160)")
+    else:
+        ctx.publish("waveform.output_thd_judged", ctx.q("waveform.output_thd"),
+                    "every resolved component, inter-harmonics and carrier groups included")
+    if ctx.v("output.transformer_ratio") is not None:
+        with ctx.section("waveform.transformer_flux"):
+            n, area = ctx.need("output.transformer_turns", "output.transformer_core_area")
+            regulated = bool(ctx.v("modulation.regulated")) and target is not None
+            if regulated and resp.v_out[spec.fundamental_bin]:
+                # the controller may hold the output at the top of its tolerance
+                hi = (1 + ctx.need("output.v_tolerance")) * target
+                k = hi / (ratio * abs(resp.v_out[spec.fundamental_bin]) / math.sqrt(2))
+                how = "regulated at the top of the output tolerance"
+            else:
+                k, how = v_max, "open loop at the highest bus"
+            ctx.publish("waveform.transformer_flux",
+                        wf.peak_flux_density(spec.freq, k * resp.v_out, n, area),
+                        how + ", loaded; every component's flux added (an upper bound)")
     top = wf.largest_harmonics(spec.freq, resp.v_out, f0, count=1)
     if top:
         ctx.publish("waveform.largest_harmonic", top[0].relative)
         ctx.publish("waveform.largest_harmonic_order", top[0].order)
     ctx.publish("waveform.output_at_bus_min", v_min * ratio * resp.v_out_rms)
     ctx.publish("waveform.output_at_bus_max", v_max * ratio * resp.v_out_rms)
+    resp0 = response(spec, no_load) if filtered else resp
+    ctx.publish("waveform.output_at_bus_max_no_load", v_max * ratio * resp0.v_out_rms,
+                "open loop, load removed" + (f"; {loss_note}" if loss_note else ""))
     if target is not None:
         tol = ctx.need("output.v_tolerance")
         ctx.publish("waveform.output_low_limit", (1 - tol) * target)
@@ -214,9 +302,12 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
                 "all harmonics through the filter and load, scaled to the target output")
     ctx.publish("filter.capacitor_current_rms", scale * resp.i_capacitor_rms)
 
-    gain = abs(complex(flt.transfer(f0, l_f, c_f, dcr=circuit[2], load_resistance=r_b,
-                                    load_inductance=l_b, damping_resistance=circuit[5],
-                                    damping_capacitance=circuit[6])))
+    def gain_at(f: float) -> float:
+        return abs(complex(flt.transfer(f, l_f, c_f, dcr=circuit[2], load_resistance=r_b,
+                                        load_inductance=l_b, damping_resistance=circuit[5],
+                                        damping_capacitance=circuit[6], esr=esr)))
+
+    gain = gain_at(f0)
     if pwm and target is not None:
         want = math.sqrt(2) * target / ratio
         for name, bus in (("waveform.index_needed_bus_min", v_min),
@@ -238,6 +329,11 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     if filtered:
         f_lc = flt.corner_frequency(l_f, c_f)
         ctx.publish("filter.corner", f_lc)
+        ctx.publish("filter.gain_at_output", gain, loss_note)
+        ctx.publish("filter.gain_at_corner", gain_at(f_lc), loss_note)
+        if pwm:
+            ctx.publish("filter.gain_at_carrier",
+                        gain_at(_ripple_frequency(kind, f0, spec.carrier)), loss_note)
         ctx.publish("filter.corner_to_output", f_lc / f0)
         if pwm:
             ctx.publish("filter.group_to_corner", _ripple_frequency(kind, f0, spec.carrier) / f_lc)
@@ -246,33 +342,47 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
                                                    l_f, c_f),
                     "R-L load taken as its parallel equivalent at the corner")
         g, _ = flt.peak_gain(l_f, c_f, dcr=circuit[2], damping_resistance=circuit[5],
-                             damping_capacitance=circuit[6])
-        ctx.publish("filter.peak_gain_no_load", g)
-        resp0 = response(spec, no_load)
+                             damping_capacitance=circuit[6], esr=esr)
+        ctx.publish("filter.peak_gain_no_load", g, loss_note)
         ctx.publish("waveform.output_thd_no_load", wf.thd_band(spec.freq, resp0.v_out, f0))
         if pwm:
             ctx.publish("filter.ripple_pp", flt.ripple_pp(kind, v_max, l_f, spec.carrier,
                                                          min(index, 1.0)))
         regulated = bool(ctx.v("modulation.regulated")) and target is not None
-        if regulated and pwm:
-            # the controller holds the target: fundamental at the target, ripple at the top bus
-            i1_peak = scale * abs(resp.i_inductor[k1])
-            ctx.publish("filter.inductor_peak", i1_peak + ctx.q("filter.ripple_pp") / 2,
-                        "regulated: fundamental at the target output plus half the ripple at "
-                        "the highest bus")
+        note = f"; {loss_note}" if loss_note else ""
         if regulated:
-            ctx.publish("filter.capacitor_peak", scale * max(resp.v_out_peak, resp0.v_out_peak
-                                                              * abs(resp.v_out[k1])
-                                                              / abs(resp0.v_out[k1])),
-                        "at the target output, loaded or unloaded")
-        if regulated and not pwm:
-            ctx.publish("filter.inductor_peak", scale * resp.i_inductor_peak,
-                        "regulated: at the target output, from all harmonics")
-        if not regulated:
-            ctx.publish("filter.inductor_peak", v_max * resp.i_inductor_peak,
-                        "open loop at the highest bus, from all harmonics")
+            # the controller holds the target, loaded or not: scale each response to it
+            scale0 = scale * abs(resp.v_out[k1]) / abs(resp0.v_out[k1])
+            if pwm:
+                half = ctx.q("filter.ripple_pp") / 2
+                loaded = scale * abs(resp.i_inductor[k1]) + half
+                unloaded = scale0 * abs(resp0.i_inductor[k1]) + half
+                how = ("regulated: fundamental at the target output plus half the ripple at the "
+                       "highest bus")
+            else:
+                loaded = scale * resp.i_inductor_peak
+                unloaded = scale0 * resp0.i_inductor_peak
+                how = "regulated: at the target output, from all harmonics"
+            ctx.publish("filter.capacitor_peak", max(scale * resp.v_out_peak,
+                                                     scale0 * resp0.v_out_peak),
+                        "at the target output, loaded or unloaded" + note)
+            c_max = max(scale * resp.i_capacitor_rms, scale0 * resp0.i_capacitor_rms)
+        else:
+            loaded = v_max * resp.i_inductor_peak
+            unloaded = v_max * resp0.i_inductor_peak
+            how = "open loop at the highest bus, from all harmonics"
             ctx.publish("filter.capacitor_peak", v_max * max(resp.v_out_peak, resp0.v_out_peak),
-                        "open loop at the highest bus, loaded or unloaded")
+                        "open loop at the highest bus, loaded or unloaded" + note)
+            c_max = max(scale * resp.i_capacitor_rms, v_max * resp.i_capacitor_rms,
+                        v_max * resp0.i_capacitor_rms)
+        ctx.publish("filter.inductor_peak_loaded", loaded, how)
+        ctx.publish("filter.inductor_peak_no_load", unloaded, how + "; load removed" + note)
+        ctx.publish("filter.inductor_peak", max(loaded, unloaded),
+                    how + ("; the unloaded case is the larger" if unloaded > loaded else
+                           "; the loaded case is the larger") + note)
+        ctx.publish("filter.capacitor_current_max", c_max,
+                    ("regulated at the target" if regulated else
+                     "open loop at the highest bus") + ", loaded or unloaded" + note)
 
     # mitigation values: solved at typical values only (each is a search over many filters)
     target_thd = ctx.v("output.thd_target")
@@ -297,6 +407,30 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
 
     if ctx.typical:
         _plot(ctx, spec, resp, v_nom, ratio)
+
+
+def _spectrum_table(ctx: Ctx, spec: wf.Spectrum, resp: flt.FilterResponse, scale: float,
+                    kind: str) -> None:
+    """Publish the first harmonics and the carrier groups at the load, RMS volts at the nominal
+    bus (bridge side scaled by the transformer ratio)."""
+    f, mag, ph = wf.harmonic_table(spec.freq, resp.v_out, spec.f0, HARMONIC_ORDERS)
+    a1 = mag[0]
+    for n in range(1, HARMONIC_ORDERS + 1):
+        if not math.isfinite(f[n - 1]):
+            break
+        ctx.publish(f"spectrum.h{n}.frequency", float(f[n - 1]))
+        ctx.publish(f"spectrum.h{n}.amplitude", float(scale * mag[n - 1] / math.sqrt(2)))
+        ctx.publish(f"spectrum.h{n}.relative", float(mag[n - 1] / a1) if a1 else math.inf)
+        ctx.publish(f"spectrum.h{n}.phase", float(ph[n - 1]))
+    if kind in SQUARE_KINDS:
+        return
+    for m, (rms, fm, peak, phase) in enumerate(
+            wf.carrier_groups(spec.freq, resp.v_out, _ripple_frequency(kind, spec.f0, spec.carrier),
+                              CARRIER_GROUPS), start=1):
+        ctx.publish(f"spectrum.group{m}.frequency", fm)
+        ctx.publish(f"spectrum.group{m}.amplitude", scale * rms)
+        ctx.publish(f"spectrum.group{m}.relative", rms * math.sqrt(2) / a1 if a1 else math.inf)
+        ctx.publish(f"spectrum.group{m}.phase", phase)
 
 
 def _plot(ctx: Ctx, spec: wf.Spectrum, resp: flt.FilterResponse, v_bus: float,

@@ -42,8 +42,10 @@ class Source(Part):
     chemistry: Literal["lead_acid", "lithium_ion", "lifepo4", "nimh", "other"] | None = None
     v_nom: V = Field(description="Nominal bus voltage.")
     v_min: V | None = Field(None, description="Lowest bus voltage in service (end of discharge).")
-    v_max: V | None = Field(None, description="Highest bus voltage (a lead-acid battery charging "
-                            "sits near 14.4–14.8 V: common practice).")
+    v_max: V | None = Field(None, description="Highest DC (mean) bus voltage in service (a "
+                            "lead-acid battery charging sits near 14.4–14.8 V: common practice). "
+                            "When not given it is taken from the chemistry (values from memory) "
+                            "or the review asks for it.")
     r_internal: OHM | None = Field(None, description="Source internal resistance.")
     i_short: A | None = Field(None, description="Prospective short-circuit current of the source.")
     ripple: PCT | None = Field(None, description="Ripple of a DC source, rms over mean.")
@@ -56,8 +58,27 @@ class Output(Part):
                              "(default ±10 %: common practice).")
     thd_target: PCT = Field(_x(0.08), description="Target voltage THD after the filter "
                             "(default 8 %, EN 50160 / IEC 62040-3).")
+    thd_orders: Literal["all", "40"] = Field(
+        "all", description="Which components the THD target counts: 'all' resolved components "
+        "(carrier groups included, the default) or harmonics to the '40'th (EN 50160).")
     transformer_ratio: RATIO | None = Field(None, description="Output transformer turns ratio, "
                                             "load side over bridge side, if there is one.")
+    transformer_primary_resistance: OHM | None = Field(
+        None, description="DC resistance of the transformer's bridge-side winding (with the "
+        "filter inductor's in series), which alone limits a DC offset's current.")
+    dc_offset: PCT = Field(_x(0.0), description="Largest mean voltage the controller may leave "
+                           "across the bridge (timer or sensing imbalance), as a fraction of the "
+                           "bus (default 0: only what the synthesis computes).")
+    transformer_turns: RATIO | None = Field(None, description="Turns of the transformer's "
+                                            "bridge-side winding, for the core flux.")
+    transformer_core_area: Q("m²") | None = Field(None, description="Effective cross-section "
+                                                  "of the transformer core, for the flux.")
+    transformer_b_max: Q("T") | None = Field(None, description="Peak flux density the core "
+                                             "takes before it saturates, at its working "
+                                             "temperature.")
+    transformer_dc_max: A | None = Field(
+        None, description="DC current in the bridge-side winding the transformer tolerates "
+        "before its core saturates (its maker's figure or a measurement).")
 
 
 class Load(Part):
@@ -216,9 +237,16 @@ class Filter(Part):
 
     inductance: H | None = None
     inductor_isat: A | None = None
-    inductor_dcr: OHM | None = None
+    inductor_dcr: OHM | None = Field(None, description="Winding (DC) resistance of the inductor; "
+                                     "when not given the review assumes an inductor Q of 50 at "
+                                     "the corner (common practice) and says so.")
     capacitance: F | None = None
     capacitor_voltage: V | None = None
+    capacitor_esr: OHM | None = Field(None, description="Equivalent series resistance of the "
+                                      "filter capacitor; when not given a capacitor Q of 200 at "
+                                      "the corner is assumed (common practice for film).")
+    capacitor_ripple_rating: A | None = Field(None, description="RMS current rating of the "
+                                              "filter capacitor at its working frequency.")
     capacitor_kind: Literal["film", "ceramic", "electrolytic"] = "film"
     damping_resistance: OHM | None = None
     damping_capacitance: F | None = None
@@ -232,6 +260,13 @@ class Fuse(Part):
     speed: Literal["fast", "medium", "slow"] | None = None
     standard: Literal["ul248", "iec60127", "automotive", "other"] = "other"
     distance: M | None = Field(None, description="Conductor length from the battery terminal.")
+    i2t_melting: Q("A²s") | None = Field(None, description="Pre-arcing (melting) I²t of the fuse, "
+                                         "from its data sheet.")
+    i2t_clearing: Q("A²s") | None = Field(None, description="Total clearing I²t of the fuse at "
+                                          "its rated voltage and breaking current.")
+    ambient_factor: RATIO | None = Field(None, description="Fuse maker's rerating factor at the "
+                                         "design's ambient temperature; when not given a typical "
+                                         "curve for the fuse standard is used (from memory).")
 
 
 class Wiring(Part):
@@ -242,8 +277,14 @@ class Wiring(Part):
 
 class Protection(Part):
     reverse_polarity: Literal["none", "series_diode", "p_mosfet", "relay", "fuse_only"] | None = None
-    overcurrent_threshold: A | None = None
-    overcurrent_response: S | None = None
+    overcurrent_threshold: A | None = Field(None, description="Current at which the overcurrent "
+                                            "protection trips (peak switch or inductor current).")
+    overcurrent_response: S | None = Field(None, description="Detection and turn-off time once "
+                                           "the threshold is crossed.")
+    overcurrent_blanking: S = Field(_x(0.0), description="Blanking time before the detector "
+                                    "acts (default 0), added to the response.")
+    precharge_resistance: OHM | None = Field(None, description="Series resistance that limits "
+                                             "the inrush into the bulk capacitors on connection.")
     tvs_standoff: V | None = None
     tvs_clamp: V | None = None
     snubber: bool | None = None
@@ -253,7 +294,19 @@ class Protection(Part):
 
 class Isolation(Part):
     touchable: list[str] = Field(default_factory=list, description="Parts a person can touch.")
-    insulation: Literal["none", "functional", "basic", "reinforced"] | None = None
+    protective_class: Literal["I", "II", "III"] | None = Field(
+        None, description="Protective class the design declares (IEC 61140): I, protective earth "
+        "on accessible conductive parts (basic insulation to them); II, double or reinforced "
+        "insulation throughout; III, extra-low voltage only. Not given: class II is assumed.")
+    touchable_earthed: bool = Field(False, description="Every touchable conductive part across "
+                                    "the barrier is bonded to protective earth (class I), so the "
+                                    "barrier is to earthed parts.")
+    barrier_on_board: bool = Field(False, description="The barrier's creepage path lies on the "
+                                   "printed board only (printed-wiring columns of IEC 60664-1).")
+    insulation: Literal["none", "functional", "basic", "supplementary", "double",
+                        "reinforced"] | None = Field(
+        None, description="Insulation between the power side and what a person can touch: "
+        "'double' is basic plus supplementary and counts as reinforced (IEC 61140).")
     working_voltage: V | None = None
     test_voltage: V | None = None
     creepage: M | None = None
@@ -261,14 +314,20 @@ class Isolation(Part):
     pollution_degree: Literal[1, 2, 3, 4] = 2
     overvoltage_category: Literal["I", "II", "III", "IV"] = "II"
     material_group: Literal["I", "II", "IIIa", "IIIb"] = "IIIb"
-    coating: bool = False
+    coating: bool = Field(False, description="The board carries a conformal coating over the "
+                          "barrier (IEC 60664-3 treatment not applied: see the finding).")
     altitude: M = _x(0.0)
 
 
 class Grounding(Part):
     scheme: Literal["single_point", "plane", "unspecified"] = "unspecified"
     gate_return: Literal["kelvin", "shared"] | None = None
-    shunt: Literal["low_side", "high_side", "none"] | None = None
+    shunt: Literal["low_side", "high_side", "none"] | None = Field(
+        None, description="Where the current shunt sits; on a bus beyond extra-low voltage its "
+        "signal must cross the barrier (see shunt_isolated).")
+    shunt_isolated: bool | None = Field(None, description="The shunt's signal reaches the "
+                                        "controller through an isolated amplifier or sensor "
+                                        "rated for the barrier.")
     protective_earth: bool | None = None
     enclosure: Literal["metal", "plastic", "none"] | None = None
     heatsink: Literal["insulated", "drain", "grounded", "none"] | None = None

@@ -372,3 +372,128 @@ def edge_voltage_step(i_peak: Any, t_edge: Any, capacitance: Any) -> Any:
     Charge on a capacitor, Q = C·ΔV; Mohan, Undeland & Robbins (2003), switching transients.
     """
     return i_peak * t_edge / capacitance
+
+
+def _as_out(x: Any) -> Any:
+    import numpy as np
+
+    a = np.asarray(x)
+    return a.item() if a.ndim == 0 else a
+
+
+def capacitor_impedance(frequency: Any, capacitance: Any, esr: Any = 0.0) -> Any:
+    """Complex impedance of the bus capacitors at ``frequency``: ``ESR + 1/(jωC)`` [Ω].
+
+    Parameters
+    ----------
+    frequency : float or ndarray
+        Frequency [Hz].
+    capacitance : float or ndarray
+        Bus capacitance [F].
+    esr : float or ndarray
+        Equivalent series resistance [Ω].
+
+    References
+    ----------
+    Impedance of a series R-C.
+    """
+    import numpy as np
+
+    w = 2 * np.pi * np.asarray(frequency, dtype=float)
+    return _as_out(np.asarray(esr, dtype=float) + 1.0 / (1j * w * np.asarray(capacitance, dtype=float)))
+
+
+def source_share(r_source: Any, frequency: Any, capacitance: Any, esr: Any = 0.0) -> Any:
+    """Fraction of a ripple current the source supplies when it shares it with the capacitors.
+
+    The bridge draws the ripple current ``I`` from the node where the source (resistance ``R_s``)
+    and the bus capacitors (``Z_c``) meet; the two branches divide it as a current divider:
+    ``I_s = I · Z_c / (R_s + Z_c)``.
+
+    Parameters
+    ----------
+    r_source : float or ndarray
+        Source resistance up to the capacitors (internal resistance plus the leads) [Ω];
+        ``inf`` for a source that cannot supply it (a rectifier off its peak), 0 for a stiff one.
+    frequency : float or ndarray
+        Ripple frequency [Hz].
+    capacitance : float or ndarray
+        Bus capacitance [F].
+    esr : float or ndarray
+        Capacitor ESR [Ω].
+
+    Returns
+    -------
+    float or ndarray
+        ``|Z_c / (R_s + Z_c)|`` [unitless], between 0 and 1 for a resistive source.
+
+    References
+    ----------
+    Current divider; Mohan, Undeland & Robbins (2003), ch. 8 (DC-side current of the inverter).
+    """
+    import numpy as np
+
+    zc = np.asarray(capacitor_impedance(frequency, capacitance, esr))
+    rs = np.asarray(r_source, dtype=float)
+    finite = np.isfinite(rs)
+    share = np.abs(zc / (np.where(finite, rs, 0.0) + zc))
+    return _as_out(np.where(finite, share, 0.0))
+
+
+def shared_bus_ripple(i_ripple_rms: Any, r_source: Any, frequency: Any, capacitance: Any,
+                      esr: Any = 0.0) -> Any:
+    """Rms bus voltage ripple when source and capacitors share a ripple current.
+
+    Parameters
+    ----------
+    i_ripple_rms : float or ndarray
+        Rms ripple current the bridge draws at ``frequency`` [A].
+    r_source : float or ndarray
+        Source resistance [Ω] (``inf``: the capacitors carry it all).
+    frequency : float or ndarray
+        Ripple frequency [Hz].
+    capacitance : float or ndarray
+        Bus capacitance [F].
+    esr : float or ndarray
+        Capacitor ESR [Ω].
+
+    Returns
+    -------
+    float or ndarray
+        ``ΔV_rms = I · |R_s ∥ Z_c|`` [V]; with ``R_s = inf`` this is :func:`bus_voltage_ripple`.
+
+    References
+    ----------
+    Parallel impedances; Mohan, Undeland & Robbins (2003), ch. 8.
+    """
+    import numpy as np
+
+    zc = np.asarray(capacitor_impedance(frequency, capacitance, esr))
+    rs = np.asarray(r_source, dtype=float)
+    finite = np.isfinite(rs)
+    rs_f = np.where(finite, rs, 1.0)
+    z = np.where(finite, rs_f * zc / (rs_f + zc), zc)
+    return _as_out(np.asarray(i_ripple_rms, dtype=float) * np.abs(z))
+
+
+def supply_lead_rms(i_dc: Any, i_2f_source: Any) -> Any:
+    """Rms current in the supply lead: the mean plus the share of the 2·f ripple the source carries.
+
+    Parameters
+    ----------
+    i_dc : float or ndarray
+        Mean input current [A].
+    i_2f_source : float or ndarray
+        Rms of the 2·f_out current the source supplies [A].
+
+    Returns
+    -------
+    float or ndarray
+        ``√(I_dc² + I_2f,s²)`` [A] (components at different frequencies add in power; the
+        switching-frequency part stays in the capacitors).
+
+    References
+    ----------
+    Parseval's theorem; Mohan, Undeland & Robbins (2003), ch. 8.
+    """
+    return (i_dc**2 + i_2f_source**2) ** 0.5

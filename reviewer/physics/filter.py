@@ -98,10 +98,32 @@ def damping_admittance(freq: "np.ndarray | float", resistance: float | None,
     return 1j * w * capacitance / (1.0 + 1j * w * capacitance * resistance)
 
 
+def capacitor_admittance(freq: "np.ndarray | float", capacitance: float,
+                         esr: float = 0.0) -> "np.ndarray":
+    """Admittance of the filter capacitor with its series resistance: ``jωC / (1 + jωC·ESR)`` [S].
+
+    Parameters
+    ----------
+    freq : array_like
+        Frequencies [Hz].
+    capacitance : float or ndarray
+        Capacitance [F] (0 for none).
+    esr : float or ndarray
+        Equivalent series resistance [Ω].
+
+    References
+    ----------
+    Impedance of a series R-C.
+    """
+    y = 1j * _w(freq) * capacitance
+    return y / (1.0 + y * esr)
+
+
 def shunt_admittance(freq: "np.ndarray | float", capacitance: float, *,
                      load_resistance: float | None = None, load_inductance: float = 0.0,
                      damping_resistance: float | None = None,
-                     damping_capacitance: float | None = None) -> "np.ndarray":
+                     damping_capacitance: float | None = None,
+                     esr: float = 0.0) -> "np.ndarray":
     """Total admittance from the output node to the return: capacitor, damping, load [S].
 
     Parameters
@@ -118,6 +140,8 @@ def shunt_admittance(freq: "np.ndarray | float", capacitance: float, *,
         Damping resistor [Ω].
     damping_capacitance : float or None
         Damping blocking capacitor [F].
+    esr : float
+        Series resistance of the filter capacitor [Ω] (default 0).
 
     Returns
     -------
@@ -128,8 +152,7 @@ def shunt_admittance(freq: "np.ndarray | float", capacitance: float, *,
     ----------
     Circuit theory (parallel admittances add).
     """
-    w = _w(freq)
-    return (1j * w * capacitance
+    return (capacitor_admittance(freq, capacitance, esr)
             + damping_admittance(freq, damping_resistance, damping_capacitance)
             + load_admittance(freq, load_resistance, load_inductance))
 
@@ -137,7 +160,7 @@ def shunt_admittance(freq: "np.ndarray | float", capacitance: float, *,
 def transfer(freq: "np.ndarray | float", inductance: float, capacitance: float, *,
              dcr: float = 0.0, load_resistance: float | None = None,
              load_inductance: float = 0.0, damping_resistance: float | None = None,
-             damping_capacitance: float | None = None) -> "np.ndarray":
+             damping_capacitance: float | None = None, esr: float = 0.0) -> "np.ndarray":
     """Voltage transfer ``H(jω) = V_load / V_bridge`` of the LC filter into its load.
 
     Parameters
@@ -158,6 +181,8 @@ def transfer(freq: "np.ndarray | float", inductance: float, capacitance: float, 
         Damping resistor across the capacitor [Ω].
     damping_capacitance : float or None
         Capacitor in series with the damping resistor [F].
+    esr : float
+        Series resistance of the filter capacitor [Ω].
 
     Returns
     -------
@@ -174,7 +199,7 @@ def transfer(freq: "np.ndarray | float", inductance: float, capacitance: float, 
     yp = shunt_admittance(freq, capacitance, load_resistance=load_resistance,
                           load_inductance=load_inductance,
                           damping_resistance=damping_resistance,
-                          damping_capacitance=damping_capacitance)
+                          damping_capacitance=damping_capacitance, esr=esr)
     with np.errstate(divide="ignore", invalid="ignore"):
         # a lossless, unloaded filter has infinite gain exactly at its corner
         return np.where(1.0 + zs * yp == 0, np.inf, 1.0 / (1.0 + zs * yp))
@@ -376,7 +401,7 @@ def band_rms(amp: "np.ndarray") -> float:
 def respond(freq: "np.ndarray", v_bridge: "np.ndarray", inductance: float,
             capacitance: float, *, dcr: float = 0.0, load_resistance: float | None = None,
             load_inductance: float = 0.0, damping_resistance: float | None = None,
-            damping_capacitance: float | None = None) -> FilterResponse:
+            damping_capacitance: float | None = None, esr: float = 0.0) -> FilterResponse:
     """Pass a bridge spectrum through the filter: load voltage and all currents per bin.
 
     Parameters
@@ -385,8 +410,8 @@ def respond(freq: "np.ndarray", v_bridge: "np.ndarray", inductance: float,
         Bin frequencies of one window, ``freq[k] = k · Δf`` [Hz].
     v_bridge : numpy.ndarray
         Complex peak bridge voltage per bin [V].
-    inductance, capacitance, dcr, load_resistance, load_inductance, damping_resistance, damping_capacitance
-        As for :func:`transfer` [H, F, Ω, Ω, H, Ω, F].
+    inductance, capacitance, dcr, load_resistance, load_inductance, damping_resistance, damping_capacitance, esr
+        As for :func:`transfer` [H, F, Ω, Ω, H, Ω, F, Ω].
 
     Returns
     -------
@@ -401,7 +426,7 @@ def respond(freq: "np.ndarray", v_bridge: "np.ndarray", inductance: float,
 
     w = _w(freq)
     y_load = load_admittance(freq, load_resistance, load_inductance)
-    y_c = 1j * w * capacitance
+    y_c = capacitor_admittance(freq, capacitance, esr)
     yp = y_c + damping_admittance(freq, damping_resistance, damping_capacitance) + y_load
     den = 1.0 + (dcr + 1j * w * inductance) * yp
     with np.errstate(divide="ignore", invalid="ignore"):
@@ -630,3 +655,61 @@ def carrier_for_thd(freq: "np.ndarray", v_bridge: "np.ndarray", f0: float, carri
         else:
             bad = mid
     return good
+
+
+DEFAULT_INDUCTOR_Q = 50.0
+"""Inductor quality factor ωL/r_L at the corner assumed when the winding resistance is not given
+[unitless] (common practice for powdered-iron and ferrite filter chokes: 30-100)."""
+DEFAULT_CAPACITOR_Q = 200.0
+"""Capacitor quality factor 1/(ωC·ESR) at the corner assumed when its ESR is not given
+[unitless] (common practice for film capacitors: several hundred at a few kHz)."""
+
+
+def default_dcr(inductance: "float | np.ndarray", capacitance: "float | np.ndarray",
+                q: float = DEFAULT_INDUCTOR_Q) -> "float | np.ndarray":
+    """Winding resistance of an inductor of quality ``q`` at the LC corner: ``r_L = ω₀L / Q``.
+
+    Parameters
+    ----------
+    inductance : float or ndarray
+        [H]
+    capacitance : float or ndarray
+        [F]
+    q : float
+        Inductor quality factor at the corner [unitless].
+
+    Returns
+    -------
+    float or ndarray
+        ``r_L = √(L/C) / Q`` [Ω] (ω₀L = √(L/C) at the corner).
+
+    References
+    ----------
+    Definition of the quality factor of a reactor, Q = ωL / R.
+    """
+    return (inductance / capacitance) ** 0.5 / q
+
+
+def default_esr(inductance: "float | np.ndarray", capacitance: "float | np.ndarray",
+                q: float = DEFAULT_CAPACITOR_Q) -> "float | np.ndarray":
+    """Series resistance of a capacitor of quality ``q`` at the LC corner: ``ESR = 1/(ω₀C·Q)``.
+
+    Parameters
+    ----------
+    inductance : float or ndarray
+        [H]
+    capacitance : float or ndarray
+        [F]
+    q : float
+        Capacitor quality factor at the corner [unitless].
+
+    Returns
+    -------
+    float or ndarray
+        ``ESR = √(L/C) / Q`` [Ω] (1/(ω₀C) = √(L/C) at the corner).
+
+    References
+    ----------
+    Definition of the quality factor of a capacitor, Q = 1 / (ωC·ESR).
+    """
+    return (inductance / capacitance) ** 0.5 / q

@@ -313,3 +313,187 @@ def fault_current_at_response(i_threshold: Any, v_bus: Any, l_fault: Any, t_resp
     v = L·di/dt for an inductor.
     """
     return i_threshold + v_bus / l_fault * t_response
+
+
+def fuse_ambient_factor(standard: str, ambient: Any) -> Any:
+    """Rerating factor of a fuse's current rating at an ambient temperature.
+
+    Parameters
+    ----------
+    standard : str
+        Fuse standard, as in :func:`fuse_loading_limit`.
+    ambient : float or ndarray
+        Air temperature around the fuse [°C].
+
+    Returns
+    -------
+    float or ndarray
+        Factor [unitless], 1 at or below 25 °C, interpolated linearly above.
+
+    Raises
+    ------
+    ValueError
+        Above the table's last row: give the fuse maker's factor instead.
+
+    References
+    ----------
+    ``reviewer/tables/fuse_ambient.toml`` (typical makers' curves, from memory).
+    """
+    import numpy as np
+
+    data = tables.load("fuse_ambient")["data"]
+    xs = np.asarray(data["ambient"], dtype=float)
+    t = np.asarray(ambient, dtype=float)
+    if np.any(t > xs[-1]):
+        raise ValueError(f"no fuse rerating above {xs[-1]:g} °C in the table")
+    ys = np.asarray(data["standard"][standard if standard in data["standard"] else "other"])
+    out = np.interp(np.maximum(t, xs[0]), xs, ys)
+    return float(out) if out.ndim == 0 else out
+
+
+def small_conductor(gauge: str) -> tuple[float, float, str] | None:
+    """NEC 240.4(D)(1)/(2) for 18 and 16 AWG copper: (largest protection [A], largest continuous
+    load [A], conditions), or None for other sizes.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, 240.4(D)(1) and (2) (from memory): 18 AWG 7 A with continuous load at
+    most 5.6 A, 16 AWG 10 A with continuous load at most 8 A, and listed device kinds only.
+    """
+    below = tables.load("nec_310_16")["below_table"]
+    if gauge not in below["awg"]:
+        return None
+    i = below["awg"].index(gauge)
+    return float(below["max_protection"][i]), float(below["continuous_max"][i]), below["conditions"]
+
+
+def small_conductor_gauge(area: float) -> str | None:
+    """The 240.4(D) small size ('18' or '16') an area reaches (within :data:`AREA_TOLERANCE`)
+    when it is below 14 AWG, or None."""
+    best = None
+    for g in tables.load("nec_310_16")["below_table"]["awg"]:
+        if area >= wire.awg_area(wire.parse_awg(g)) * (1 - AREA_TOLERANCE):
+            best = g
+    return best
+
+
+def capacitor_inrush_i2t(v_source: Any, capacitance: Any, r_total: Any) -> Any:
+    """I²t of the current that charges an empty capacitor bank through a resistance.
+
+    ``i(t) = (V/R)·e^(−t/RC)``, so ``∫i²dt = (V/R)²·RC/2 = C·V² / (2R)``: half the stored energy
+    over the resistance, whatever the time constant.
+
+    Parameters
+    ----------
+    v_source : float or ndarray
+        Source voltage at connection [V].
+    capacitance : float or ndarray
+        Bus capacitance [F].
+    r_total : float or ndarray
+        Everything in series: source internal resistance, leads, capacitor ESR, pre-charge
+        resistor [Ω].
+
+    Returns
+    -------
+    float or ndarray
+        ``I²t = C·V² / (2R)`` [A²s].
+
+    References
+    ----------
+    First-order RC charging, integrated (any circuits text, e.g. Mohan, Undeland & Robbins 2003).
+    """
+    return capacitance * v_source**2 / (2 * r_total)
+
+
+def adiabatic_k(insulation_temp: Any) -> Any:
+    """k of copper for the adiabatic short-circuit withstand ``I²t ≤ k²·S²`` (S in mm²).
+
+    Parameters
+    ----------
+    insulation_temp : float or ndarray
+        Temperature rating of the insulation [°C]: below 90 °C thermoplastic (k = 115), at or
+        above thermosetting (k = 143).
+
+    Returns
+    -------
+    float or ndarray
+        k [A·√s/mm²].
+
+    References
+    ----------
+    IEC 60364-4-43, 434.5.2 and Table 43A (``reviewer/tables/iec60364_4_43_k.toml``, from
+    memory).
+    """
+    import numpy as np
+
+    ins = tables.load("iec60364_4_43_k")["insulation"]
+    t = np.asarray(insulation_temp, dtype=float)
+    out = np.where(t >= ins["thermosetting"]["from_temp"], ins["thermosetting"]["k"],
+                   ins["thermoplastic"]["k"])
+    return float(out) if out.ndim == 0 else out
+
+
+def wire_withstand_i2t(k: Any, area: Any) -> Any:
+    """Largest I²t a conductor takes adiabatically in a fault: ``k²·S²`` with S in mm².
+
+    Parameters
+    ----------
+    k : float or ndarray
+        From :func:`adiabatic_k` [A·√s/mm²].
+    area : float or ndarray
+        Conductor cross-section [m²].
+
+    Returns
+    -------
+    float or ndarray
+        ``k² · (S / 1 mm²)²`` [A²s].
+
+    References
+    ----------
+    IEC 60364-4-43, 434.5.2 (t = (k·S/I)², valid up to 5 s).
+    """
+    return k**2 * (area * 1e6) ** 2
+
+
+CLEARING_MULTIPLE = {"fast": 5.0, "medium": 7.0, "slow": 10.0}
+"""Multiple of the rating at which a fuse of each speed opens within about 0.1 s [unitless]:
+read from typical time-current curves of fast-acting, medium and time-delay fuses (from memory;
+the fuse's own curve decides). A fuse of unstated speed is taken as time-delay."""
+
+
+def clearing_multiple(speed: str | None) -> float:
+    """The multiple of :data:`CLEARING_MULTIPLE` for a fuse speed (``None``: time-delay).
+
+    References
+    ----------
+    Typical fuse time-current curves (from memory); IEC 60127-2 distinguishes F and T types.
+    """
+    return CLEARING_MULTIPLE["slow" if speed is None else speed]
+
+
+def ampacity_ambient_factor(ambient: float, insulation_temp: float = 75.0) -> float | None:
+    """Correction of a Table 310.16 ampacity for an ambient above 30 °C.
+
+    Parameters
+    ----------
+    ambient : float
+        Air temperature around the conductor [°C].
+    insulation_temp : float
+        Temperature rating of the insulation [°C] (the column, as :func:`wire_ampacity`).
+
+    Returns
+    -------
+    float or None
+        The factor [unitless] (1 at or below 30 °C); ``None`` above the table or for insulation
+        below 60 °C.
+
+    References
+    ----------
+    NFPA 70 (NEC) 2023, Table 310.15(B)(1)(1) (``reviewer/tables/nec_310_15_ambient.toml``,
+    from memory).
+    """
+    data = tables.load("nec_310_15_ambient")["data"]
+    col = _column(insulation_temp)
+    if col is None or ambient > data["ambient_upper"][-1]:
+        return None
+    return float(data["column"][col][tables.step_index(data["ambient_upper"], ambient)])

@@ -23,6 +23,9 @@ from reviewer import tables
 MM = 1e-3
 MIL = 25.4e-6
 INSULATION_ORDER = ("none", "functional", "basic", "reinforced")
+INSULATION_EQUIVALENT = {"supplementary": "basic", "double": "reinforced"}
+"""Grades that count as another: supplementary insulation alone is one layer like basic; double
+insulation (basic plus supplementary) ranks with reinforced (IEC 61140:2016)."""
 
 
 def rated_impulse_voltage(system_voltage: float, category: str) -> float:
@@ -307,7 +310,8 @@ def insulation_sufficient(provided: str | None, required: str) -> bool:
     Parameters
     ----------
     provided : str or None
-        ``"none"``, ``"functional"``, ``"basic"``, ``"reinforced"`` or ``None`` (not stated).
+        ``"none"``, ``"functional"``, ``"basic"``, ``"supplementary"``, ``"double"``,
+        ``"reinforced"`` or ``None`` (not stated).
     required : str
         The grade required, from :func:`required_insulation`.
 
@@ -321,6 +325,7 @@ def insulation_sufficient(provided: str | None, required: str) -> bool:
     """
     if provided is None:
         return required in ("none", "functional")
+    provided = INSULATION_EQUIVALENT.get(provided, provided)
     return INSULATION_ORDER.index(provided) >= INSULATION_ORDER.index(required)
 
 
@@ -386,3 +391,32 @@ def trace_width(current: Any, temp_rise: Any, copper_oz: Any = 1.0, layer: str =
     k, b, c, mil_per_oz = _trace_constants(layer)
     area_mil2 = (current / (k * temp_rise**b)) ** (1.0 / c)
     return area_mil2 / (copper_oz * mil_per_oz) * MIL
+
+
+TEMPORARY_OVERVOLTAGE = 1200.0
+"""Short-term (≤ 5 s) temporary overvoltage added to the system voltage [V] (IEC 60664-1:2007,
+5.3.3.2.3, from memory)."""
+
+
+def ac_test_voltage(system_voltage: Any, insulation: str = "basic") -> Any:
+    """Rms a.c. dielectric test voltage of solid insulation for its grade.
+
+    Parameters
+    ----------
+    system_voltage : float or ndarray
+        Nominal voltage of the hazardous circuit, line to neutral [V].
+    insulation : str
+        ``"basic"`` (also functional and supplementary) or ``"reinforced"`` (double).
+
+    Returns
+    -------
+    float or ndarray
+        ``U_n + 1200 V`` for basic insulation, twice that for reinforced [V rms].
+
+    References
+    ----------
+    IEC 60664-1:2007, 5.3.3.2.3 (temporary overvoltages) and 6.1.3.4 (a.c. test of solid
+    insulation; reinforced at twice the basic value), from memory.
+    """
+    basic = system_voltage + TEMPORARY_OVERVOLTAGE
+    return 2 * basic if insulation == "reinforced" else basic

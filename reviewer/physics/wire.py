@@ -39,3 +39,35 @@ def area_to_awg(area: float) -> float:
     """The (fractional) gauge whose area is ``area`` [m²]: the inverse of :func:`awg_area`."""
     d = math.sqrt(4 * area / math.pi)
     return 36 - 39 * math.log(d / 0.127e-3, 92)
+
+
+COPPER_RESISTIVITY_20C = 1.0 / 58.0 * 1e-6
+"""Resistivity of annealed copper at 20 °C [Ω·m]: 1/58 Ω·mm²/m (IEC 60028, the International
+Annealed Copper Standard: 1.7241 µΩ·cm)."""
+COPPER_ALPHA_20C = 0.00393
+"""Temperature coefficient of the resistance of annealed copper at 20 °C [1/K] (IEC 60028)."""
+
+
+def conductor_resistance(length: "float | object", area: "float | object",
+                         temperature: "float | object" = 20.0) -> "float | object":
+    """Resistance of a copper conductor.
+
+    Parameters
+    ----------
+    length : float or ndarray
+        Conductor length [m].
+    area : float or ndarray
+        Cross-section [m²].
+    temperature : float or ndarray
+        Conductor temperature [°C].
+
+    Returns
+    -------
+    float or ndarray
+        ``R = ρ₂₀ · (1 + α₂₀ · (T − 20)) · l / S`` [Ω].
+
+    References
+    ----------
+    IEC 60028 (International Annealed Copper Standard): ρ₂₀ = 1/58 Ω·mm²/m, α₂₀ = 0.00393 /K.
+    """
+    return COPPER_RESISTIVITY_20C * (1 + COPPER_ALPHA_20C * (temperature - 20.0)) * length / area  # type: ignore[operator]

@@ -31,3 +31,17 @@ def test_peak_with_sinusoidal_ripple():
 ])
 def test_beyond_elv_at_each_threshold(bus, out, beyond):
     assert band.beyond_elv(bus, 120.0, out) is beyond
+
+
+def test_new_band_functions_take_arrays():
+    import numpy as np
+
+    # the 10 % ripple-free boundary (IEC 61140), elementwise
+    np.testing.assert_allclose(band.dc_band_limit(np.array([0.05, 0.10, 0.11])),
+                               [120.0, 120.0, 50 * math.sqrt(2)])
+    # V_max + √2·rms + pp/2 (definition of rms for a sinusoid)
+    np.testing.assert_allclose(band.bus_peak(np.array([10.0, 20.0]), 1.0, 2.0),
+                               [10 + math.sqrt(2) + 1, 20 + math.sqrt(2) + 1])
+    # a 12 V lead-acid pack: 12 · 2.47 / 2.0 = 14.82 V (cell voltages from memory)
+    assert band.chemistry_v_max(12.0, 2.47, 2.0) == pytest.approx(14.82)
+    np.testing.assert_allclose(band.ripple_fraction(np.array([1.0, 2.0]), 10.0), [0.1, 0.2])

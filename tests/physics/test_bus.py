@@ -133,3 +133,23 @@ def test_local_voltage_step_inverts_local_capacitance():
 def test_edge_voltage_step_hand_calculation():
     # Q = C·ΔV: 12 A drawn for 100 ns from 10 µF: ΔV = 12 · 100e-9 / 10e-6 = 0.12 V.
     assert bus.edge_voltage_step(12.0, 100e-9, 10e-6) == pytest.approx(0.12)
+
+
+def test_source_share_is_a_current_divider_for_floats_and_arrays():
+    """k = |Z_c / (R_s + Z_c)|, Z_c = ESR + 1/(jωC) (current divider). 1 mF at 100 Hz:
+    Z_c = −j·1.59155 Ω; R_s = 1.59155 Ω gives |−j / (1 − j)| = 1/√2."""
+    import numpy as np
+
+    from reviewer.physics import bus
+
+    xc = 1 / (2 * math.pi * 100 * 1e-3)
+    assert bus.source_share(xc, 100.0, 1e-3) == pytest.approx(1 / math.sqrt(2))
+    got = bus.source_share(np.array([0.0, xc, math.inf]), 100.0, 1e-3)
+    np.testing.assert_allclose(got, [1.0, 1 / math.sqrt(2), 0.0])
+    # the voltage across the node: I · |R ∥ Z_c| = I · xc/√2 for R = xc
+    assert bus.shared_bus_ripple(2.0, xc, 100.0, 1e-3) == pytest.approx(2 * xc / math.sqrt(2))
+    np.testing.assert_allclose(bus.shared_bus_ripple(2.0, np.array([0.0, math.inf]), 100.0, 1e-3),
+                               [0.0, 2 * xc])
+    # supply lead: components at different frequencies add in power (Parseval)
+    np.testing.assert_allclose(bus.supply_lead_rms(np.array([3.0, 6.0]), np.array([4.0, 8.0])),
+                               [5.0, 10.0])

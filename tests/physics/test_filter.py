@@ -214,3 +214,32 @@ def test_no_load_and_no_capacitor_cases_stay_finite():
     h = flt.transfer(f, 1e-3, 10e-6)
     assert np.all(np.isfinite(h)) and h[0] == 1.0
     assert np.all(flt.transfer(f, 0.0, 0.0, load_resistance=5.0) == 1.0)
+
+
+def polys_esr(L, C, esr, dcr, r):
+    """H(s) with a capacitor ESR: Z_p = (esr + 1/(sC)) ∥ R, so
+    H = R(sC·esr + 1) / (s²LC(R + esr) + s(L + dcr·C(R + esr) + R·C·esr) + dcr + R)."""
+    b = [R_ := r * C * esr, r]
+    a = [L * C * (r + esr), L + dcr * C * (r + esr) + r * C * esr, dcr + r]
+    del R_
+    return b, a
+
+
+@pytest.mark.parametrize("esr,dcr", [(0.0, 0.0), (0.05, 0.1), (0.5, 0.0)])
+def test_transfer_with_capacitor_esr_against_scipy_freqs(esr, dcr):
+    L, C, r = 1e-3, 10e-6, 20.0
+    f = np.geomspace(10.0, 1e6, 300)
+    b, a = polys_esr(L, C, esr, dcr, r)
+    _, h_ref = signal.freqs(b, a, worN=2 * np.pi * f)
+    h = flt.transfer(f, L, C, dcr=dcr, load_resistance=r, esr=esr)
+    np.testing.assert_allclose(h, h_ref, rtol=1e-9)
+
+
+def test_default_losses_are_the_stated_q_at_the_corner():
+    # Q = ω₀L / r_L = 1/(ω₀ C ESR) with ω₀L = 1/(ω₀C) = √(L/C) = 10 Ω for 1 mH / 10 µF
+    assert flt.default_dcr(1e-3, 10e-6) == pytest.approx(10.0 / flt.DEFAULT_INDUCTOR_Q)
+    assert flt.default_esr(1e-3, 10e-6) == pytest.approx(10.0 / flt.DEFAULT_CAPACITOR_Q)
+    # unloaded with those losses the peak is finite: Q_total = 10 / (0.2 + 0.05) = 40 (series
+    # R-L-C at resonance, |H| ≈ Q for Q ≫ 1)
+    g, _ = flt.peak_gain(1e-3, 10e-6, dcr=0.2, esr=0.05)
+    assert math.isfinite(g) and g == pytest.approx(40.0, rel=2e-3)

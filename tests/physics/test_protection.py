@@ -98,3 +98,34 @@ def test_tvs_window():
 def test_fault_current_when_protection_acts():
     # v = L di/dt: 12 V across 1 µH rises at 12 A/µs; 2 µs after a 100 A threshold: 124 A.
     assert p.fault_current_at_response(100.0, 12.0, 1e-6, 2e-6) == pytest.approx(124.0)
+
+
+def test_fault_energy_functions_by_hand_and_on_arrays():
+    import numpy as np
+
+    from reviewer.physics import protection as pr
+    from reviewer.physics import wire as w
+
+    # C·V²/(2R): 1 mF, 12 V, 0.1 Ω → 0.72 A²s (RC charging integrated)
+    assert pr.capacitor_inrush_i2t(12.0, 1e-3, 0.1) == pytest.approx(0.72)
+    np.testing.assert_allclose(pr.capacitor_inrush_i2t(12.0, 1e-3, np.array([0.1, 1.0])), [0.72, 0.072])
+    # IEC 60364-4-43 Table 43A (from memory): 115 thermoplastic, 143 thermosetting copper
+    np.testing.assert_allclose(pr.adiabatic_k(np.array([70.0, 75.0, 90.0, 105.0])),
+                               [115.0, 115.0, 143.0, 143.0])
+    # k²S²: 115² · 2.5² = 82 656 A²s for 2.5 mm²
+    assert pr.wire_withstand_i2t(115.0, 2.5e-6) == pytest.approx(82656.25)
+    # fuse rerating: 1 at or below 25 °C, 0.95 at 40 °C, halfway 0.915 at 50 °C (from memory)
+    np.testing.assert_allclose(pr.fuse_ambient_factor("ul248", np.array([0.0, 25.0, 40.0, 50.0])),
+                               [1.0, 1.0, 0.95, 0.915])
+    with pytest.raises(ValueError):
+        pr.fuse_ambient_factor("ul248", 120.0)
+    # NEC 240.4(D) (from memory)
+    assert pr.small_conductor("18")[:2] == (7.0, 5.6)
+    assert pr.small_conductor("16")[:2] == (10.0, 8.0)
+    assert pr.small_conductor("14") is None
+    assert pr.small_conductor_gauge(w.awg_area(18)) == "18"
+    assert pr.small_conductor_gauge(w.awg_area(20)) is None
+    # copper 1/58 Ω·mm²/m at 20 °C (IEC 60028): 10 m of 1 mm² is 0.17241 Ω; +39.3 % at 120 °C
+    assert w.conductor_resistance(10.0, 1e-6) == pytest.approx(10 / 58)
+    assert w.conductor_resistance(10.0, 1e-6, 120.0) == pytest.approx(10 / 58 * 1.393)
+    assert pr.clearing_multiple(None) == pr.clearing_multiple("slow") == 10.0

@@ -83,3 +83,12 @@ def test_trace_width_grows_with_current_as_the_fit_says():
     # w ∝ I^(1/0.725): doubling the current multiplies the width by 2^1.37931 = 2.6012.
     ratio = spacing.trace_width(8.0, 10.0) / spacing.trace_width(4.0, 10.0)
     assert ratio == pytest.approx(math.pow(2, 1 / 0.725))
+
+
+def test_ac_test_voltage_by_grade():
+    import numpy as np
+
+    # IEC 60664-1:2007 5.3.3.2.3 / 6.1.3.4 (from memory): U_n + 1200 V basic, twice reinforced
+    assert spacing.ac_test_voltage(230.0) == pytest.approx(1430.0)
+    assert spacing.ac_test_voltage(230.0, "reinforced") == pytest.approx(2860.0)
+    np.testing.assert_allclose(spacing.ac_test_voltage(np.array([0.0, 120.0])), [1200.0, 1320.0])

@@ -81,3 +81,17 @@ def test_interpolate_and_step_helpers():
         tables.interpolate(xs, ys, 4.1)
     with pytest.raises(ValueError):
         tables.step_index(xs, 5.0)
+
+
+def test_fuse_rerating_rows_rise_and_factors_fall():
+    data = tables.load("fuse_ambient")["data"]
+    assert _rising(data["ambient"]) and data["ambient"][0] == 25.0
+    for std, values in data["standard"].items():
+        assert len(values) == len(data["ambient"]), std
+        assert values[0] == 1.0 and all(a >= b for a, b in zip(values, values[1:])), std
+
+
+def test_new_tables_say_their_values_are_from_memory():
+    for name in ("battery_chemistry", "fuse_ambient", "iec60364_4_43_k"):
+        assert "from memory" in tables.load(name)["table"]["certainty"]
+    assert "from memory" in tables.load("nec_310_16")["below_table"]["certainty"]
