@@ -44,6 +44,9 @@ class Decision:
     value: float | None = None
     limit: float | None = None
     unit: str = ""
+    accepted_by: str = ""
+    """Who accepts the finding as it stands (name and role), kept apart from the reviewer who
+    recorded it; asked for when a hazard is accepted."""
 
 
 @dataclass(frozen=True)

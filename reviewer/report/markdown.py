@@ -68,6 +68,7 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out += [f"> **CAUTION: beyond extra-low voltage.** {CAUTION}", ""]
     out += [f"> {AID_NOTE}", ""]
     out += _summary(r)
+    out += _conflicts(r)
     if pics:
         out += ["## Pictures", ""]
         for caption, link in pics:
@@ -131,6 +132,21 @@ def _summary(r: Review) -> list[str]:
                 f"{reconfirm} awaiting re-confirmation, {undecided} without a decision.", ""]
     else:
         out += ["No check fails.", ""]
+    return out
+
+
+def _conflicts(r: Review) -> list[str]:
+    from reviewer.report.conflicts import conflicts
+
+    found = conflicts(r)
+    if not found:
+        return []
+    out = ["## Answers the design file contradicts", "",
+           "These checklist answers disagree with the design file itself; until the design or "
+           "the answer changes, they are not taken as passes.", ""]
+    out += [f"- **≠ `{c.question}`** answered *{c.answer}*, but the design file has "
+            f"`{c.field}` = {_cell(c.value)}: {c.message}." for c in found]
+    out.append("")
     return out
 
 
@@ -214,6 +230,10 @@ def _questions(r: Review) -> list[str]:
                 "design file" if a is None else "")
             word = "yes" if f.outcome == "answered" else "not applicable"
             note = a.note if a is not None else f.answer_note
+            from reviewer.report.conflicts import for_question
+
+            if for_question(r, f.rule_id):
+                word += " (≠ contradicted by the design file, see above)"
             out.append(f"| `{f.rule_id}` {_cell(f.question)} | {word} | {_cell(note)} | "
                        f"{_cell(who)} |")
         out.append("")

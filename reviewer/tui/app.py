@@ -21,6 +21,7 @@ from textual.worker import get_current_worker
 from reviewer.errors import InputError
 from reviewer.record import NEEDS_REASON, DecisionError
 from reviewer.tui import pictures, views
+from reviewer.tui.views import finding_title
 from reviewer.tui.dialogs import ChoiceDialog, KeysScreen, PathDialog, PickDialog, WhatIfDialog
 from reviewer.tui.keys import ACTIONS
 from reviewer.tui.session import Snapshot, Walk
@@ -190,7 +191,7 @@ class WalkApp(App[int]):
             self._answer(item)
         else:
             d = self.walk.decision(item.key)
-            self._decision(item, d.kind if d else "will_change", focus_note=False)
+            self._decision(item, d.kind if d else None, focus_note=False)
 
     def action_quick(self, kind: str) -> None:
         item = self._item()
@@ -203,7 +204,8 @@ class WalkApp(App[int]):
             self._decision(item, kind, focus_note=True)
             return
         d = self.walk.decision(item.key)
-        self._record(lambda: self.walk.decide(item.key, kind, d.reason if d else ""))
+        self._record(lambda: self.walk.decide(item.key, kind, d.reason if d else "",
+                                              d.accepted_by if d else ""))
 
     def _record(self, do) -> str | None:
         """Run a record change; an error message for a dialog, or None after saving."""
@@ -214,29 +216,40 @@ class WalkApp(App[int]):
         self._after_record()
         return None
 
-    def _decision(self, item, kind: str, focus_note: bool) -> None:
+    def _decision(self, item, kind: str | None, focus_note: bool) -> None:
         d = self.walk.decision(item.key)
 
-        def apply(value: str, note: str) -> str | None:
-            return self._record(lambda: self.walk.decide(item.key, value, note))
+        def apply(value: str, note: str, who: str) -> str | None:
+            return self._record(lambda: self.walk.decide(item.key, value, note, who))
 
         self.push_screen(ChoiceDialog(
-            f"Decision on {item.key}", item.finding.title, DECISIONS, apply, preset=kind,
-            note=d.reason if d else "", note_label="Why (needed to accept or to say it does not apply)",
-            focus_note=focus_note))
+            f"Decision on {item.key}", finding_title(item.finding), DECISIONS, apply,
+            preset=kind, note=d.reason if d else "",
+            note_label="Why (needed to accept or to say it does not apply)",
+            focus_note=focus_note, who_for=lambda v: self.walk.needs_acceptor(item.key, v),
+            who=d.accepted_by if d else ""))
 
     def _answer(self, item) -> None:
         current = self.walk.answer_of(item)
+        question = item.finding.rule_id
 
-        def apply(value: str, note: str) -> str | None:
-            error = self._record(lambda: self.walk.answer(item.finding.rule_id, value, note))
+        def apply(value: str, note: str, _who: str) -> str | None:
+            error = self._record(lambda: self.walk.answer(question, value, note))
             if error is None:
                 self.review_again()
+                clash = self.walk.answer_conflicts(question, value)
+                if clash:
+                    self.notify("\n".join(c.text() for c in clash),
+                                title="Answer contradicts the design file", severity="warning")
             return error
 
+        def warn(value: str) -> str:
+            return "\n".join("≠ " + c.text() for c in self.walk.answer_conflicts(question, value))
+
         self.push_screen(ChoiceDialog(
-            f"Answer {item.finding.rule_id}", item.finding.question, ANSWERS, apply,
-            preset=current[0] if current else "yes", note=current[1] if current else ""))
+            f"Answer {question}", item.finding.question, ANSWERS, apply,
+            preset=current[0] if current else None, note=current[1] if current else "",
+            warn=warn))
 
     def action_note(self) -> None:
         item = self._item()
@@ -247,11 +260,11 @@ class WalkApp(App[int]):
             return
         d = self.walk.decision(item.key)
 
-        def apply(_: str, note: str) -> str | None:
+        def apply(_: str, note: str, _who: str) -> str | None:
             return self._record(lambda: self.walk.note(item.key, note))
 
-        self.push_screen(ChoiceDialog(f"Note on {item.key}", item.finding.title, [], apply,
-                                      note=d.reason if d else ""))
+        self.push_screen(ChoiceDialog(f"Note on {item.key}", finding_title(item.finding), [],
+                                      apply, note=d.reason if d else ""))
 
     def action_whatif(self) -> None:
         if not self.walk.snapshot.ok:

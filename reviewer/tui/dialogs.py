@@ -21,18 +21,27 @@ from textual.widgets.option_list import Option
 
 from reviewer.tui.keys import ACTIONS, DIALOG_KEYS, key_text
 
-Apply = Callable[[str, str], "str | None"]
-
+Apply = Callable[[str, str, str], "str | None"]
+"""apply(choice, note, who) -> an error message, or None once saved."""
 
 
 class ChoiceDialog(ModalScreen[bool]):
-    """Choose one of a few values by its letter (or the arrows), add a note, press Enter."""
+    """Choose one of a few values by its letter (or the arrows), add a note, press Enter.
+
+    Nothing is chosen until the reviewer chooses: with no ``preset`` no entry is highlighted,
+    and Enter without a choice is refused in place, so two Enters never record anything.
+    ``warn(choice)`` gives a line shown at once when a choice is highlighted (e.g. an answer
+    the design file contradicts); ``who_for(choice)`` says whether the choice also needs the
+    name of the person who takes it (accepting a hazard).
+    """
 
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
     def __init__(self, title: str, subject: str, choices: Sequence[tuple[str, str, str]],
                  apply: Apply, preset: str | None = None, note: str = "",
-                 note_label: str = "Note", focus_note: bool = False):
+                 note_label: str = "Note", focus_note: bool = False,
+                 warn: Callable[[str], str] | None = None,
+                 who_for: Callable[[str], bool] | None = None, who: str = ""):
         super().__init__()
         self.title_text, self.subject = title, subject
         self.choices = list(choices)  # (letter, value, words)
@@ -41,6 +50,9 @@ class ChoiceDialog(ModalScreen[bool]):
         self.note = note
         self.note_label = note_label
         self.focus_note = focus_note
+        self.warn = warn
+        self.who_for = who_for
+        self.who = who
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
@@ -49,7 +61,13 @@ class ChoiceDialog(ModalScreen[bool]):
             if self.choices:
                 yield OptionList(*[Option(f"{k}  {words}", id=v) for k, v, words in self.choices],
                                  id="choice")
+                yield Static("", classes="warning", id="warning", markup=False)
+            yield Static(self.note_label, classes="label", markup=False)
             yield Input(self.note, placeholder=f"{self.note_label} (Enter to save)", id="note")
+            yield Static("Who accepts it (name and role): the person answerable for the hazard",
+                         classes="label", id="who-label", markup=False)
+            yield Input(self.who, placeholder="who accepts it, e.g. A. Person, lead engineer",
+                        id="who")
             yield Static("", classes="error", id="error", markup=False)
             yield Static(("letter or ↑↓ to choose · " if self.choices else "")
                          + "Tab to the note · Enter save · Esc close", classes="hint")
@@ -58,17 +76,39 @@ class ChoiceDialog(ModalScreen[bool]):
         if self.choices:
             ol = self.query_one("#choice", OptionList)
             values = [v for _, v, _ in self.choices]
-            ol.highlighted = values.index(self.preset) if self.preset in values else 0
+            ol.highlighted = values.index(self.preset) if self.preset in values else None
             (self.query_one("#note") if self.focus_note else ol).focus()
         else:
             self.query_one("#note").focus()
+        self._follow()
 
     @property
-    def value(self) -> str:
+    def value(self) -> str | None:
+        """The chosen value; None while nothing is chosen ("" for a dialog without choices)."""
         if not self.choices:
             return ""
-        ol = self.query_one("#choice", OptionList)
-        return self.choices[ol.highlighted or 0][1]
+        h = self.query_one("#choice", OptionList).highlighted
+        return None if h is None else self.choices[h][1]
+
+    def _needs_who(self) -> bool:
+        v = self.value
+        return bool(v and self.who_for and self.who_for(v))
+
+    def _follow(self) -> None:
+        """Show the warning and the who-accepts box that the current choice calls for."""
+        v = self.value
+        if self.choices:
+            text = self.warn(v) if (v and self.warn) else ""
+            w = self.query_one("#warning", Static)
+            w.update(text)
+            w.display = bool(text)
+        need = self._needs_who()
+        self.query_one("#who").display = need
+        self.query_one("#who-label").display = need
+
+    @on(OptionList.OptionHighlighted, "#choice")
+    def _moved(self) -> None:
+        self._follow()
 
     def on_key(self, event) -> None:
         if isinstance(self.focused, Input) or not event.character:
@@ -76,17 +116,37 @@ class ChoiceDialog(ModalScreen[bool]):
         for i, (k, _, _) in enumerate(self.choices):
             if event.character == k:
                 self.query_one("#choice", OptionList).highlighted = i
+                self._follow()
                 self.query_one("#note").focus()
                 event.stop()
                 return
 
     @on(OptionList.OptionSelected, "#choice")
     def _chosen(self) -> None:
+        self._follow()
         self.query_one("#note").focus()
 
     @on(Input.Submitted, "#note")
+    def _note_done(self) -> None:
+        if (self._needs_who() and not self.query_one("#who", Input).value.strip()
+                and self.query_one("#note", Input).value.strip()):
+            self.query_one("#who").focus()
+            return
+        self._submit()
+
+    @on(Input.Submitted, "#who")
+    def _who_done(self) -> None:
+        self._submit()
+
     def _submit(self) -> None:
-        error = self.apply(self.value, self.query_one("#note", Input).value)
+        value = self.value
+        if value is None:
+            words = " · ".join(f"{k} {w}" for k, _, w in self.choices)
+            self.query_one("#error", Static).update(f"nothing chosen yet: choose one ({words})")
+            self.query_one("#choice").focus()
+            return
+        who = self.query_one("#who", Input).value if self._needs_who() else ""
+        error = self.apply(value, self.query_one("#note", Input).value, who)
         if error:
             self.query_one("#error", Static).update(error)
         else:

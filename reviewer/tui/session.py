@@ -251,7 +251,8 @@ class Walk:
         items = [Item(k, cur.get(k), filed.get(k)) for k in keys]
         shown = [i for i in items if self.show_passed
                  or (i.current and i.current.outcome in NEEDS_ATTENTION)
-                 or (i.filed and i.filed.outcome in NEEDS_ATTENTION)]
+                 or (i.filed and i.filed.outcome in NEEDS_ATTENTION)
+                 or self.conflicts_of(i)]
         areas: dict[str, list[Item]] = {}
         for i in sorted(shown, key=Item.sort_key):
             areas.setdefault(i.area, []).append(i)
@@ -281,7 +282,7 @@ class Walk:
 
     def needs_decision(self, item: Item) -> bool:
         """A failing finding with no decision (or one to re-confirm), or an open question."""
-        if item.outcome == "open":
+        if item.outcome == "open" or self.conflicts_of(item):
             return True
         failing = item.outcome == "fail" or (item.filed is not None and item.filed.outcome == "fail")
         if not failing:
@@ -310,8 +311,8 @@ class Walk:
             return {}
         c = r.counts()
         items = self.items()
-        failing = [i for i in items if i.outcome == "fail"
-                   or (i.filed is not None and i.filed.outcome == "fail")]
+        # one basis: the review shown (as filed, or with the what-if changes applied)
+        failing = [i for i in items if i.outcome == "fail"]
         decided = [i for i in failing if not self.needs_decision(i)]
         return {
             "hazard": c.get("hazard", 0), "risk": c.get("risk", 0), "advice": c.get("advice", 0),
@@ -319,7 +320,8 @@ class Walk:
             "passed": c.get("pass", 0) + c.get("answered", 0),
             "failing": len(failing), "decided": len(decided),
             "reconfirm": sum(1 for i in failing if self.decision_state(i) == "reconfirm"),
-            "proposals": len(self.record.proposals),
+            "proposals": len(self.record.proposals) if s_applied(self.snapshot) else 0,
+            "conflicts": len(conflicts(r)),
             "orphans": len(r.orphans),
         }
 
@@ -332,12 +334,43 @@ class Walk:
                 return f
         raise KeyError(key)
 
-    def decide(self, key: str, kind: str, reason: str = "") -> None:
-        """Record a decision on the finding as filed (the numbers it is made on), and save."""
+    def needs_acceptor(self, key: str, kind: str) -> bool:
+        """True when deciding ``kind`` on ``key`` also asks who accepts it: accepting a hazard."""
+        if kind != "accepted":
+            return False
+        try:
+            return self._finding_for_record(key).severity == "hazard"
+        except KeyError:
+            return False
+
+    def decide(self, key: str, kind: str, reason: str = "", accepted_by: str = "") -> None:
+        """Record a decision on the finding as filed (the numbers it is made on), and save.
+
+        Accepting a hazard needs ``accepted_by`` (who accepts it) as well as the reason."""
         record = rec.decide(self.record, self._finding_for_record(key), kind, reason,
                             self.reviewer)
+        if self.needs_acceptor(key, kind) and not accepted_by.strip():
+            raise rec.DecisionError("accepting a hazard needs the name of who accepts it, "
+                                    "as well as why")
+        if kind == "accepted" and accepted_by.strip():
+            d = replace(record.decisions[key], accepted_by=accepted_by.strip())
+            record = replace(record, decisions={**record.decisions, key: d})
         self._save(record)
         self.snapshot = _restamp(self.snapshot, record)
+
+    def answer_conflicts(self, question: str, answer: str) -> list:
+        """What the design file says against answering ``answer`` to ``question``."""
+        from reviewer.report.conflicts import answer_conflicts
+
+        r = self.snapshot.filed
+        return answer_conflicts(r.sheet if r else None, question, answer)
+
+    def conflicts_of(self, item: Item) -> list:
+        """The contradictions of the answer given to the question ``item`` (none if open)."""
+        if not item.is_question:
+            return []
+        ans = self.answer_of(item)
+        return [] if ans is None else self.answer_conflicts(item.finding.rule_id, ans[0])
 
     def note(self, key: str, text: str) -> None:
         self._save(rec.note(self.record, key, text, self.reviewer))
@@ -416,6 +449,17 @@ class Walk:
 
     def default_export(self) -> Path:
         return self.path.with_name(self.path.stem + ".review.md")
+
+
+def s_applied(snap: Snapshot) -> bool:
+    """True when the review shown has the what-if changes applied (they validated)."""
+    return snap.current is not None and snap.current is not snap.filed
+
+
+def conflicts(review: Review) -> list:
+    from reviewer.report.conflicts import conflicts as found
+
+    return found(review)
 
 
 def _restamp(snap: Snapshot, record: rec.Record) -> Snapshot:

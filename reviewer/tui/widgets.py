@@ -29,9 +29,15 @@ class FindingList(OptionList):
         for i in items:
             by_area.setdefault(i.area, []).append(i)
         options: list[Option] = []
+        room = max(8, width - 13)
+        shown = [views.fit_name(views.short_name(i), room) for i in items]
+        alike = {n for n in shown if shown.count(n) > 1}
         for area, group in by_area.items():
-            options.append(Option(views.area_header(area, group), id=f"area:{area}", disabled=True))
-            options += [Option(views.item_prompt(walk, i, width), id=i.key) for i in group]
+            options.append(Option(views.area_header(area, group, walk), id=f"area:{area}",
+                                  disabled=True))
+            options += [Option(views.item_prompt(
+                walk, i, width, two_lines=views.fit_name(views.short_name(i), room) in alike),
+                id=i.key) for i in group]
         if not items:
             options.append(Option(Text("Nothing to review here: no finding fails, asks or needs "
                                        "data. Press p to list the passed checks."),
@@ -48,6 +54,16 @@ class FindingList(OptionList):
         if target is not None:
             self.highlighted = self.get_option_index(target)
         return target
+
+    async def _on_click(self, event) -> None:
+        """One click selects an entry; only a double click (or Enter) opens the decision."""
+        event.prevent_default()  # the option list's own handler would open it on one click
+        clicked = event.style.meta.get("option")
+        if clicked is None or self._options[clicked].disabled:
+            return
+        self.highlighted = clicked
+        if event.chain >= 2:
+            self.action_select()
 
     @property
     def key(self) -> str | None:

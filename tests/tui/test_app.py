@@ -10,6 +10,7 @@ import pytest
 
 from reviewer import record as rec
 from reviewer.tui.app import WalkApp
+from reviewer.tui.dialogs import ChoiceDialog
 from reviewer.tui.keys import ACTIONS
 from reviewer.tui.session import Walk
 
@@ -60,6 +61,12 @@ async def test_full_walk(naive, tmp_path):
         await type_text(pilot, "bench only")
         await pilot.press("enter")
         await pilot.pause()
+        if walk.needs_acceptor(second, "accepted"):  # a hazard: who accepts it, as well as why
+            assert isinstance(app.screen, ChoiceDialog)
+            assert app.screen.focused.id == "who"
+            await type_text(pilot, "A. Lead")
+            await pilot.press("enter")
+            await pilot.pause()
         d = on_disk(naive).decisions[second]
         assert (d.kind, d.reason, d.reviewer) == ("accepted", "bench only", "tester")
         # a note on the first decision
