@@ -148,7 +148,7 @@ class WalkApp(App[int]):
             return
         pane = self.query_one("#tabs").size.width
         self.query_one("#timing-picture", Picture).show(
-            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - 17))))
+            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - 17), r.findings)))
         self.query_one("#spectrum-picture", Picture).show(
             "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 23))))
 

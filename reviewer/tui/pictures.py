@@ -13,7 +13,8 @@ from dataclasses import dataclass
 from typing import Any
 
 from reviewer.quantities import Sheet
-from reviewer.report.timing import OTHER, Edge, edge, typical
+from reviewer.report.timing import (OTHER, SHOOT_THROUGH, Edge, corner_text, edge, typical,
+                                     worst_run)
 from reviewer.units import render
 
 ON, OFF, EDGE, OVERLAP = "█", "▁", "▒", "▓"
@@ -46,18 +47,26 @@ def _axis(t0: float, t1: float, width: int, lead: str) -> list[str]:
     return [lead + "".join(marks).replace(" ", "─"), pad + "".join(labels)]
 
 
-def timing_lines(e: Edge, width: int = 60) -> list[str]:
-    """Lines of a timing diagram for one edge; ``width`` is the plot's width in columns."""
+def _t_end(e: Edge) -> float:
+    dead = e.dead or 0.0
+    if e.has_switching:
+        ends = [dead, e.off_total, dead + e.td_on + e.rise]
+    else:
+        ends = [dead]
+    return max(ends) * 1.2 if max(ends) > 0 else 200e-9
+
+
+def timing_lines(e: Edge, width: int = 60, t_end: float | None = None,
+                 heading: str | None = None) -> list[str]:
+    """Lines of a timing diagram for one edge; ``width`` is the plot's width in columns and
+    ``t_end`` the end of its time axis [s] (to draw two corners on one scale)."""
     width = max(width, 20)
     dead = e.dead or 0.0
     lead_w = 14
     if e.has_switching:
         on_start = dead + e.td_on
         on_full = on_start + e.rise
-        ends = [dead, e.off_total, on_full]
-    else:
-        ends = [dead]
-    t_end = max(ends) * 1.2 if max(ends) > 0 else 200e-9
+    t_end = t_end or _t_end(e)
     t0, t1 = -0.12 * t_end, t_end
     span = t1 - t0
 
@@ -74,8 +83,7 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
         return "".join(row)
 
     inc, out = e.incoming, e.outgoing
-    title = f"{inc} side turns on after the {out} side turns off"
-    lines = [title, ""]
+    lines = [heading or f"outgoing {out} side off, then incoming {inc} side on", ""]
     lines.append(f"{(out + ' gate cmd'):<{lead_w}}" + trace([(t0, 0.0, ON)]))
     if e.has_switching:
         lines.append(f"{(out + ' channel'):<{lead_w}}" +
@@ -107,6 +115,8 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
             gap = on_start - e.off_total
             summary += f" · both on: never (margin {render(gap, 's')})"
     lines += _axis(t0, t1, width, " " * lead_w)
+    lines.append(" " * lead_w + f"time from the {out} gate command; full width "
+                 f"{render(span, 's')}")
     lines.append(summary)
     if e.has_switching:
         lines.append(f"{out}: turn-off delay {render(e.td_off, 's')}, off after "
@@ -120,12 +130,30 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
     return lines
 
 
-def timing_picture(sheet: Sheet, width: int = 60) -> list[str]:
-    """Both edges of a leg. Both legs of the bridge use the same parts and timing."""
+def timing_picture(sheet: Sheet, width: int = 60, findings=()) -> list[str]:
+    """Both edges of a leg, each at the corner its shoot-through finding was judged at, with
+    the typical values drawn below it on the same time scale. Both legs of the bridge use the
+    same parts and timing."""
     lines = [f"Key: {ON} on   {EDGE} switching (estimated)   {OFF} off",
              f"     {OVERLAP} both switches of the leg on (shoot-through)", ""]
-    for incoming in ("low", "high"):
-        lines += timing_lines(edge(sheet, incoming), width)
+    for incoming in ("high", "low"):
+        run = worst_run(sheet, incoming, findings)
+        worst = edge(sheet, incoming, run)
+        typ = edge(sheet, incoming)
+        out = OTHER[incoming]
+        name = f"{SHOOT_THROUGH}[{incoming}]"
+        lines.append(f"━━ {incoming.upper()} SIDE TURNS ON: outgoing {out} side, incoming "
+                     f"{incoming} side ({name})")
+        if run is None:
+            lines += timing_lines(typ, width, heading="at typical values (no toleranced input "
+                                  "moves this edge)")
+        else:
+            t_end = max(_t_end(worst), _t_end(typ))
+            lines += timing_lines(worst, width, t_end, heading="AT THE WORST CORNER, as the "
+                                  f"finding is judged: {corner_text(sheet, run)}")
+            lines.append("")
+            lines += timing_lines(typ, width, t_end, heading="at typical values, on the same "
+                                  "time scale")
         lines.append("")
     lines.append("Both legs use the same parts and dead time: this diagram holds for each leg.")
     return lines
