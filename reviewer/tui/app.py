@@ -48,6 +48,8 @@ class WalkApp(App[int]):
         self.selected: str | None = None
         self.busy = False
         self._theme_name = theme
+        self._pending_whatif = None
+        self.last_whatif = ""
 
     # layout ------------------------------------------------------------------------------
     def compose(self) -> ComposeResult:
@@ -96,6 +98,8 @@ class WalkApp(App[int]):
             self.review_again()  # the record changed while this review ran
             return
         self.busy = False
+        if self._pending_whatif is not None:
+            self._whatif_done()
         if first and self.selected is None:  # start on the first item that needs a decision
             self.selected = self.walk.next_undecided(None)
         self.show_all()
@@ -140,7 +144,7 @@ class WalkApp(App[int]):
 
     def show_selected(self) -> None:
         self.query_one("#detail", Detail).show(views.detail(self.walk, self.walk.item(self.selected)))
-        self.query_one("#changes-detail", Detail).show(views.proposals(self.walk))
+        self.query_one("#changes-detail", Detail).show(views.proposals(self.walk, self.last_whatif))
 
     def show_pictures(self) -> None:
         r = self.walk.review
@@ -280,17 +284,32 @@ class WalkApp(App[int]):
 
                 value = num(f.pass_value, f.pass_unit)
 
+        key = item.key if item is not None else None
+
         def apply(field_path: str, value_text: str, note: str) -> str | None:
             problems = self.walk.check_proposal(field_path, value_text)
             if problems:
                 return "\n".join(f"{p.path or field_path}: {p.message}" for p in problems)
+            before = self.walk.review
             error = self._record(lambda: self.walk.propose(field_path, value_text, note))
             if error is None:
+                self._pending_whatif = (key, field_path, value_text, before)
                 self.review_again()
             return error
 
         self.push_screen(WhatIfDialog(self.walk.design_fields(), self.walk.field_value, apply,
-                                      field, value))
+                                      field, value, hint=self.walk.field_hint))
+
+    def _whatif_done(self) -> None:
+        """Say plainly what the last what-if change did (or that it had no effect)."""
+        pending, self._pending_whatif = self._pending_whatif, None
+        if pending is None or self.walk.review is None:
+            return
+        key, field_path, value_text, before = pending
+        text = views.whatif_result(before, self.walk.review, key, field_path, value_text)
+        self.last_whatif = text
+        self.notify(text, title="What-if", timeout=12)
+        self.show_selected()
 
     def action_withdraw(self) -> None:
         props = self.walk.record.proposals

@@ -157,46 +157,78 @@ class ChoiceDialog(ModalScreen[bool]):
 
 
 class WhatIfDialog(ModalScreen[bool]):
-    """A design field and the value to try; checked before it is kept."""
+    """A design field and the value to try, and why; checked before it is kept.
+
+    Focus starts on the field; Enter moves to the value, then to "why", then tries it. The value
+    and the hint follow the field: choosing another field puts that field's value in (unless
+    the value was typed by hand) and says what the field holds now."""
 
     BINDINGS = [Binding("escape", "cancel", "Close")]
 
-    def __init__(self, fields: list[str], current: Callable[[str], str], apply: Callable[[str, str, str], "str | None"],
-                 field: str = "", value: str = ""):
+    def __init__(self, fields: list[str], current: Callable[[str], str],
+                 apply: Callable[[str, str, str], "str | None"],
+                 field: str = "", value: str = "", hint: Callable[[str], str] | None = None):
         super().__init__()
         self.fields, self.current, self.apply = fields, current, apply
         self.field, self.preset_value = field, value
+        self.hint_of = hint or (lambda f: "")
+        self._filled = ""  # the value last put in by the dialog (not typed by the user)
+
+    def _value_for(self, field: str) -> str:
+        if field == self.field and self.preset_value:
+            return self.preset_value
+        return self.current(field) if field else ""
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
             yield Static("What if… (a proposal: the design file is not changed)", classes="title", markup=False)
-            yield Static("Design field, e.g. timing.dead_time", classes="subject", markup=False)
+            yield Static("Design field, e.g. timing.dead_time", classes="label", markup=False)
             yield Input(self.field, placeholder="field", id="field",
                         suggester=SuggestFromList(self.fields, case_sensitive=False))
-            yield Static("Value to try, as in the design file, e.g. 800 ns", classes="subject", markup=False)
-            yield Input(self.preset_value or (self.current(self.field) if self.field else ""),
-                        placeholder="value", id="value")
-            yield Input("", placeholder="why (optional note)", id="why")
+            yield Static("", classes="subject", id="field-hint", markup=False)
+            yield Static("Value to try, as in the design file (with its unit)", classes="label",
+                         markup=False)
+            self._filled = self._value_for(self.field)
+            yield Input(self._filled, placeholder="value", id="value")
+            yield Static("Why (a note kept with the proposal)", classes="label", markup=False)
+            yield Input("", placeholder="why (optional)", id="why")
             yield Static("", classes="error", id="error", markup=False)
-            yield Static("→ accepts a suggestion · Enter next / try it · Esc close", classes="hint")
+            yield Static("→ accepts a suggestion · Enter next · Enter in why tries it · Esc close",
+                         classes="hint")
 
     def on_mount(self) -> None:
-        self.query_one("#value" if self.field else "#field").focus()
+        self.query_one("#field").focus()
+        self._hint(self.field)
+
+    def _hint(self, field: str) -> None:
+        text = self.hint_of(field) if field else ""
+        self.query_one("#field-hint", Static).update(text)
+
+    @on(Input.Changed, "#field")
+    def _field_changed(self, event: Input.Changed) -> None:
+        field = event.value.strip()
+        self._hint(field)
+        value = self.query_one("#value", Input)
+        if value.value == self._filled:  # not typed by hand: follow the field
+            self._filled = self._value_for(field) if field in self.fields else ""
+            with self.prevent(Input.Changed):
+                value.value = self._filled
 
     @on(Input.Submitted, "#field")
     def _field(self, event: Input.Submitted) -> None:
-        value = self.query_one("#value", Input)
-        if not value.value:
-            value.value = self.current(event.value.strip())
-        value.focus()
+        self.query_one("#value", Input).focus()
 
     @on(Input.Submitted, "#value")
+    def _value(self) -> None:
+        self.query_one("#why", Input).focus()
+
     @on(Input.Submitted, "#why")
     def _try(self) -> None:
         field = self.query_one("#field", Input).value.strip()
         value = self.query_one("#value", Input).value.strip()
         if not field or not value:
             self.query_one("#error", Static).update("give a field and a value")
+            self.query_one("#field" if not field else "#value").focus()
             return
         error = self.apply(field, value, self.query_one("#why", Input).value)
         if error:

@@ -421,6 +421,26 @@ class Walk:
             return num(q.typ, q.unit)
         return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
 
+    def field_hint(self, field_path: str) -> str:
+        """What a design field holds now, for the what-if dialog: 'now 0 s (as filed)'."""
+        r = self.snapshot.filed
+        if r is None or not field_path:
+            return ""
+        q = r.sheet.get(f"design.{field_path}")
+        if q is None:
+            if f"design.{field_path}" in r.sheet.missing:
+                return "not given in the design file"
+            return "not a design field of this design: → accepts a suggestion"
+        p = self.record.proposals.get(field_path)
+        now = self.field_value(field_path) if p is None else p.value
+        filed = (self.snapshot.filed.sheet.get(f"design.{field_path}"))
+        label = f"{q.label}: " if q.label and q.label != q.name else ""
+        unit = f" [{q.unit}]" if q.unit else ""
+        text = f"{label}now {now}{unit}"
+        if p is not None and filed is not None:
+            text += " (a proposal; as filed " + _shown(filed) + ")"
+        return text
+
     def design_fields(self) -> list[str]:
         """Every design field a what-if may change (from the sheet), for completion."""
         r = self.snapshot.filed
@@ -449,6 +469,14 @@ class Walk:
 
     def default_export(self) -> Path:
         return self.path.with_name(self.path.stem + ".review.md")
+
+
+def _shown(q) -> str:
+    if q.kind == "number":
+        from reviewer.report.common import num
+
+        return num(q.typ, q.unit)
+    return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
 
 
 def s_applied(snap: Snapshot) -> bool:

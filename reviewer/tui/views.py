@@ -277,8 +277,53 @@ def problems(items: list[Problem], title: str) -> Text:
     return t
 
 
-def proposals(walk: Walk) -> Text:
+def _said(f) -> str:
+    if f is None:
+        return "is not reviewed"
+    if f.outcome == "fail":
+        return "fails"
+    return {"pass": "passes", "needs_data": "needs data", "open": "is open",
+            "answered": "is answered", "not_applicable": "does not apply"}.get(f.outcome, f.outcome)
+
+
+def whatif_result(before, after, key: str | None, field_path: str, value: str) -> str:
+    """What a what-if change did, in words: the selected finding first, then how many others
+    changed outcome; says so plainly when nothing changed.
+
+    ``before`` and ``after`` are the reviews shown before and after the change."""
+    old = {f.key: f for f in before.findings} if before is not None else {}
+    new = {f.key: f for f in after.findings}
+    lines = [f"{field_path} = {value}:"]
+    if key is not None and key in new:
+        f0, f1 = old.get(key), new[key]
+        name = key.replace("[", " [")
+        if f0 is None or f0.outcome != f1.outcome:
+            lines.append(f"{name}: {_said(f0)} → now {_said(f1)}")
+        else:
+            still = "still " + _said(f1)
+            if f0.value is not None and f1.value is not None and f0.value != f1.value:
+                lines.append(f"{name}: {still}; computed {common.num(f0.value, f0.unit)} → "
+                             f"{common.num(f1.value, f1.unit)}"
+                             + (f" (limit {common.limit(f1)})" if f1.limit is not None else ""))
+            elif f0.limit != f1.limit and f1.limit is not None:
+                lines.append(f"{name}: {still}; limit {common.num(f0.limit, f0.unit)} → "
+                             f"{common.num(f1.limit, f1.unit)}")
+            else:
+                lines.append(f"{name}: {still} — the change has no effect on it")
+    moved = [k for k, f in new.items() if k != key and (k not in old or old[k].outcome != f.outcome)]
+    if moved:
+        lines.append(f"{len(moved)} other finding{'s' if len(moved) != 1 else ''} changed "
+                     "outcome: " + ", ".join(moved[:4]) + ("…" if len(moved) > 4 else ""))
+    elif len(lines) == 1 or "no effect" in lines[-1]:
+        lines.append("no finding changed its outcome")
+    return "\n".join(lines)
+
+
+def proposals(walk: Walk, last: str = "") -> Text:
     t = Text()
+    if last:
+        t.append("Last what-if\n", style="bold")
+        t.append(last + "\n\n")
     props = walk.record.proposals
     t.append("What-if changes (kept in the record; the design file is never rewritten)\n\n",
              style="bold")
