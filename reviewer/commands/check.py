@@ -25,6 +25,8 @@ def register(sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    import sys
+
     from reviewer.errors import InputError
     from reviewer.review import review_file
 
@@ -47,10 +49,11 @@ def run(args: argparse.Namespace) -> int:
     elif args.format == "markdown":
         from reviewer.report import markdown as view
 
-        pictures = {}
-        if args.output is not None and not args.no_pictures:
-            pictures = _pictures(reviews, args.output)
-        text = view.render(reviews, pictures=pictures)
+        if args.output is not None:  # the one writer, shared with the walkthrough's export
+            view.write(reviews, args.output, with_pictures=not args.no_pictures,
+                       tell=lambda message: print(message, file=sys.stderr))
+            return 1 if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews) else 0
+        text = view.render(reviews)
     else:
         from reviewer.report import text as view
 
@@ -60,23 +63,3 @@ def run(args: argparse.Namespace) -> int:
     if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews):
         return 1
     return 0
-
-
-def _pictures(reviews, output: Path) -> dict:
-    """Write each review's pictures beside ``output``; {review path: [(caption, link)]}."""
-    import sys
-
-    from reviewer.report import pictures
-
-    out = {}
-    for r in reviews:
-        stem = output.stem if len(reviews) == 1 else f"{output.stem}.{Path(r.path).stem}"
-        try:
-            made = pictures.write_pictures(r, output.parent, stem)
-        except pictures.PicturesUnavailable as e:
-            print(f"note: pictures left out: {e}", file=sys.stderr)
-            return {}
-        for _, name in made:
-            print(f"wrote {output.parent / name}", file=sys.stderr)
-        out[r.path] = made
-    return out

@@ -281,3 +281,60 @@ def _sheet(r: Review) -> list[str]:
         out += ["", "Not computed for lack of data:", "", "| Quantity | Give |", "|---|---|"]
         out += [f"| `{m.name}` | {_cell(', '.join(m.needs))} |" for m in missing]
     return out
+
+
+# writing a report file -----------------------------------------------------------------------
+def write_pictures(reviews: list[Review], output, tell=None) -> dict[str, Pictures]:
+    """Write each review's pictures beside ``output``; {review path: [(caption, link)]}.
+
+    ``tell(message)`` hears each file written and why pictures were left out (matplotlib
+    absent)."""
+    from pathlib import Path
+
+    from reviewer.report import pictures
+
+    tell = tell or (lambda message: None)
+    output = Path(output)
+    out: dict[str, Pictures] = {}
+    for r in reviews:
+        stem = output.stem if len(reviews) == 1 else f"{output.stem}.{Path(r.path).stem}"
+        try:
+            made = pictures.write_pictures(r, output.parent, stem)
+        except pictures.PicturesUnavailable as e:
+            tell(f"note: pictures left out: {e}")
+            return {}
+        for _, name in made:
+            tell(f"wrote {output.parent / name}")
+        out[r.path] = made
+    return out
+
+
+def write(reviews: list[Review], output, with_pictures: bool = True, tell=None,
+          extra: str = "") -> str:
+    """Write the Markdown report of ``reviews`` to ``output``, its pictures beside it: the one
+    writer of ``reviewer check --format markdown -o`` and of the walkthrough's export.
+
+    ``extra`` is Markdown inserted before the appendix (the walkthrough's what-if section).
+    Returns the text written."""
+    from pathlib import Path
+
+    from reviewer.atomic import write_text
+
+    output = Path(output)
+    output.parent.mkdir(parents=True, exist_ok=True)
+    pics = write_pictures(reviews, output, tell) if with_pictures else {}
+    text = render(reviews, pictures=pics)
+    if extra:
+        text = insert_before_appendix(text, extra)
+    write_text(output, text)
+    if tell:
+        tell(f"wrote {output}")
+    return text
+
+
+def insert_before_appendix(text: str, extra: str) -> str:
+    for anchor in ("\n## Appendix", "\n## Proposed changes"):
+        at = text.find(anchor)
+        if at >= 0:
+            return text[:at].rstrip("\n") + "\n\n" + extra + "\n" + text[at:]
+    return text.rstrip("\n") + "\n\n" + extra

@@ -334,6 +334,11 @@ class WalkApp(App[int]):
         self.show_all()
 
     def action_export(self) -> None:
+        if not self.walk.snapshot.ok:  # refuse early: there is nothing to report
+            self.notify("The design did not load, so there is no report to export: fix the "
+                        "file first.", severity="warning")
+            return
+
         def apply(target: str) -> str | None:
             try:
                 path = self.walk.export(Path(target))
@@ -341,7 +346,7 @@ class WalkApp(App[int]):
                 return "\n".join(str(p) for p in e.problems)
             except OSError as e:
                 return f"cannot write {target}: {e}"
-            self.notify(f"Wrote the Markdown report to {path}")
+            self.notify(f"Wrote the Markdown report (pictures beside it) to {path}")
             return None
 
         self.push_screen(PathDialog("Export the Markdown report to", str(self.walk.default_export()),

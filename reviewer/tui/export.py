@@ -48,10 +48,4 @@ def markdown_report(filed: Review, current: Review | None = None) -> str:
 
     text = markdown.render([filed])
     extra = whatif_section(filed, current)
-    if not extra:
-        return text
-    for anchor in ("\n## Appendix", "\n## Proposed changes"):
-        at = text.find(anchor)
-        if at >= 0:
-            return text[:at].rstrip("\n") + "\n\n" + extra + "\n" + text[at:]
-    return text.rstrip("\n") + "\n\n" + extra
+    return markdown.insert_before_appendix(text, extra) if extra else text

@@ -450,25 +450,35 @@ class Walk:
                  if n.startswith("design.")}
         return sorted(n for n in names if not n.startswith(("design.", "checklist.")))
 
-    def export(self, target: str | Path) -> Path:
-        """Write the Markdown report (the design as filed, and what the proposals would change);
-        never over the design file or its record."""
-        from reviewer.tui.export import markdown_report
+    def export(self, target: str | Path, with_pictures: bool = True) -> Path:
+        """Write the Markdown report with the writer of ``reviewer check -o`` (pictures beside
+        it), plus what the proposals would change; never over the design file or its record."""
+        from reviewer.report import markdown
+        from reviewer.tui.export import whatif_section
 
-        t = Path(target)
+        t = Path(target).expanduser()
         if t.resolve() == self.path.resolve() or t.resolve() == self.record_file.resolve():
             raise InputError([Problem(str(t), None, "", "is the design or its record; "
                                       "choose another file for the report")])
+        if t.suffix.lower() not in (".md", ".markdown"):
+            raise InputError([Problem(str(t), None, "", "a Markdown report's name ends in .md")])
         s = self.snapshot
         if not s.ok:
             raise InputError(list(s.problems))
-        from reviewer.atomic import write_text
-
-        write_text(t, markdown_report(s.filed, s.current))
+        markdown.write([s.filed], t, with_pictures=with_pictures,
+                       extra=whatif_section(s.filed, s.current))
         return t
 
     def default_export(self) -> Path:
-        return self.path.with_name(self.path.stem + ".review.md")
+        """A ``reviews/`` folder beside the design; for a bundled example (whose folder belongs
+        to the program), a ``reviews/`` folder in the working directory instead."""
+        from reviewer.paths import examples_dir
+
+        here = self.path.resolve().parent
+        packaged = {examples_dir().resolve(), Path(__file__).resolve().parents[1]}
+        inside = any(here == p or p in here.parents for p in packaged)
+        base = Path.cwd() if inside else self.path.parent
+        return base / "reviews" / (self.path.stem + ".review.md")
 
 
 def _shown(q) -> str:

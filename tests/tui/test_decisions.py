@@ -124,3 +124,47 @@ def test_accepting_a_hazard_shows_who_in_the_reports(naive):
     md = markdown.render([walk.review])
     assert "accepted by A. Lead, design owner" in md
     assert "accepted by A. Lead, design owner" in text.render([walk.review], color=False)
+
+
+def test_walkthrough_export_and_check_o_write_the_same_markdown(naive, tmp_path, capsys):
+    """One writer: the same record gives the same Markdown (and the same pictures) from the
+    walkthrough's export and from ``reviewer check --format markdown -o``."""
+    from reviewer.cli import main
+
+    walk = Walk.open(naive, reviewer="tester")
+    walk.install(walk.refresh())
+    key = walk.next_undecided(None)
+    walk.decide(key, "will_change", "")
+    walk.answer("checklist.gate-loop", "yes", "checked on the layout draft")
+    walk.install(walk.refresh())
+    a = tmp_path / "a" / "review.md"
+    b = tmp_path / "b" / "review.md"
+    walk.export(a)
+    b.parent.mkdir()
+    assert main(["check", str(naive), "--format", "markdown", "-o", str(b)]) == 0
+    # the review date is today's in both; the design path is the same file
+    assert a.read_text(encoding="utf-8") == b.read_text(encoding="utf-8")
+    assert sorted(p.name for p in a.parent.iterdir()) == sorted(p.name for p in b.parent.iterdir())
+    assert "](review.timing.svg)" in a.read_text(encoding="utf-8")
+
+
+def test_default_export_is_a_reviews_folder_never_a_packaged_example(naive):
+    from pathlib import Path
+
+    from reviewer.paths import examples_dir
+
+    assert Walk.open(naive).default_export() == naive.parent / "reviews" / "bench.review.md"
+    packaged = Walk.open(examples_dir() / "naive_bench_pchannel.toml").default_export()
+    assert examples_dir().resolve() not in packaged.resolve().parents
+    assert packaged.parent.name == "reviews" and packaged.parent.parent == Path.cwd()
+
+
+async def test_export_refused_early_when_the_design_does_not_load(broken):
+    app = make(broken)
+    async with app.run_test(size=(100, 32)) as pilot:
+        await settle(app, pilot)
+        await pilot.press("e")
+        await pilot.pause()
+        from reviewer.tui.dialogs import PathDialog
+
+        assert not isinstance(app.screen, PathDialog)
