@@ -64,9 +64,10 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
     out.append("")
     if d.notes:
         out += [f"*Designer's notes:* {d.notes}", ""]
-    if r.beyond_elv:
+    if r.beyond_elv:  # one caution: it says the review is an aid, not an approval, as well
         out += [f"> **CAUTION: beyond extra-low voltage.** {CAUTION}", ""]
-    out += [f"> {AID_NOTE}", ""]
+    else:
+        out += [f"> {AID_NOTE}", ""]
     out += _summary(r)
     out += _conflicts(r)
     if pics:
@@ -119,17 +120,22 @@ def _summary(r: Review) -> list[str]:
            "not run, the open questions and the checks that passed.", "",
            "| Area | " + " | ".join(heads) + " |", "|---|" + "---:|" * len(heads)]
     for a in areas:
-        out.append(f"| {a} | " + " | ".join(str(table[a][c]) for c in cols) + " |")
+        if not any(table[a].values()):  # an area with nothing in any column says nothing
+            continue
+        out.append(f"| {common.area_name(a)} | " + " | ".join(str(table[a][c]) for c in cols)
+                   + " |")
     total = {c: sum(table[a][c] for a in areas) for c in cols}
     out.append("| **all** | " + " | ".join(f"**{total[c]}**" for c in cols) + " |")
     out.append("")
     fails = r.failures
-    settled = sum(1 for f in fails if r.settled(f))
-    reconfirm = sum(1 for f in fails if r.state(f.key) == "reconfirm")
-    undecided = sum(1 for f in fails if r.decision(f.key) is None)
-    if fails:
-        out += [f"Of {_n(len(fails), 'failing finding')}: {settled} settled by a current decision, "
-                f"{reconfirm} awaiting re-confirmation, {undecided} without a decision.", ""]
+    buckets = dict.fromkeys(("settled", "reconfirm", "will_change", "undecided"), 0)
+    for f in fails:
+        buckets[_bucket(r, f)] += 1
+    if fails:  # every failing finding is in exactly one bucket: they add up
+        out += [f"Of {_n(len(fails), 'failing finding')}: {buckets['settled']} settled by a "
+                f"current decision, {buckets['will_change']} to be changed in the design, "
+                f"{buckets['reconfirm']} awaiting re-confirmation, {buckets['undecided']} "
+                "without a decision.", ""]
     else:
         out += ["No check fails.", ""]
     return out
@@ -150,14 +156,34 @@ def _conflicts(r: Review) -> list[str]:
     return out
 
 
+def _bucket(r: Review, f) -> str:
+    """The one bucket of a failing finding: settled, reconfirm, will_change or undecided."""
+    if r.settled(f):
+        return "settled"
+    d = r.decision(f.key)
+    if d is not None and r.state(f.key) == "reconfirm":
+        return "reconfirm"
+    if d is not None and d.kind == "will_change":
+        return "will_change"
+    return "undecided"
+
+
+def heading(f) -> str:
+    """A finding's heading, naming the side of the leg it is about ('… — high side')."""
+    title = common.title(f)
+    if f.subject in ("high", "low"):
+        return f"{title} — {f.subject} side"
+    return f"{title} ({f.subject})" if f.subject else title
+
+
 def _findings(r: Review) -> list[str]:
     fails = r.failures
     if not fails:
         return []
     out = ["## Findings", ""]
     for i, f in enumerate(fails, start=1):
-        out += [f"### {i}. {common.label(f)}: {f.title}", "",
-                f"`{f.key}` · area {f.area} · {f.severity}" +
+        out += [f"### {i}. {common.label(f)}: {heading(f)}", "",
+                f"`{f.key}` · area {common.area_name(f.area)} · {f.severity}" +
                 (" · settled by decision" if r.settled(f) else ""), ""]
         rows = []
         if f.value is not None:
@@ -185,7 +211,7 @@ def _findings(r: Review) -> list[str]:
         else:
             st = r.state(f.key)
             out += [f"**Decision.** {common.decision(d, st)}.", ""]
-            if st == "reconfirm":
+            if st in ("reconfirm", "resolved"):
                 out += ["| | Decided on | Now |", "|---|---|---|",
                         f"| value | {_cell(common.num(d.value, d.unit))} | "
                         f"{_cell(common.num(f.value, f.unit))} |",
