@@ -101,3 +101,51 @@ def test_new_writes_a_design_that_loads_and_refuses_to_overwrite(tmp_path, capsy
 def test_examples_listed(capsys):
     assert main(["examples"]) == 0
     assert "careful_12v_sine.toml" in capsys.readouterr().out
+
+
+def test_bare_reviewer_prints_usage_and_exits_2(capsys):
+    assert main([]) == 2
+    assert "usage: reviewer" in capsys.readouterr().err
+
+
+def test_mistyped_command_gets_a_suggestion(capsys):
+    assert main(["chek", "x.toml"]) == 2
+    assert "did you mean 'check'" in capsys.readouterr().err
+
+
+def test_every_command_and_argument_has_help():
+    from reviewer.cli import _parser
+
+    parser, _ = _parser()
+    sub = next(a for a in parser._actions if a.__class__.__name__ == "_SubParsersAction")
+    assert all(c.help for c in sub._choices_actions)
+    for name, sp in sub.choices.items():
+        missing = [a.dest for a in sp._actions if not a.help]
+        assert not missing, f"{name}: {missing}"
+
+
+def test_keys_without_brackets_and_one_reviewer_option(tmp_path, capsys):
+    import shutil
+
+    from reviewer import record as rec
+
+    design = tmp_path / "bench.toml"
+    shutil.copy(example("naive_bench_pchannel"), design)
+    assert main(["decide", str(design), "timing.shoot-through.high", "--as", "will_change",
+                 "--reviewer", "ana"]) == 0
+    assert main(["decide", str(design), "timing.shoot-through.low", "--as", "will_change",
+                 "--by", "bo"]) == 0  # the old name still works
+    decisions = rec.load(rec.record_path(design)).decisions
+    assert decisions["timing.shoot-through[high]"].reviewer == "ana"
+    assert decisions["timing.shoot-through[low]"].reviewer == "bo"
+    # accepting a hazard asks who accepts it
+    assert main(["decide", str(design), "timing.no-dead-time", "--as", "accepted",
+                 "--note", "bench only"]) == 2
+    assert "--accepted-by" in capsys.readouterr().err
+    assert main(["decide", str(design), "timing.no-dead-time", "--as", "accepted",
+                 "--note", "bench only", "--accepted-by", "A. Lead, owner"]) == 0
+    d = rec.load(rec.record_path(design)).decisions["timing.no-dead-time"]
+    assert d.accepted_by == "A. Lead, owner"
+    # an answer the design file contradicts is flagged at once
+    assert main(["answer", str(design), "checklist.dead-time-enforced", "yes"]) == 0
+    assert "contradicts the design file" in capsys.readouterr().err

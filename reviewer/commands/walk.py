@@ -12,7 +12,7 @@ def register(sub) -> None:
     w = sub.add_parser("walk", help="walk through the findings of a design, deciding each one")
     w.add_argument("design", type=Path, metavar="DESIGN")
     add_rule_options(w)
-    w.add_argument("--reviewer", default=None,
+    w.add_argument("--reviewer", "--by", dest="reviewer", default=None,
                    help="name written with each decision (default: your user name)")
 
 
@@ -27,4 +27,11 @@ def run(args: argparse.Namespace) -> int:
     walk = Walk.open(args.design, args.rules, args.reviewer, profile=args.profile,
                      house=not args.no_house_rules)
     result = WalkApp(walk).run()
+    import sys
+
+    where = walk.record_file
+    if where.exists():
+        print(f"Every decision and answer is in {where}", file=sys.stderr)
+    else:
+        print(f"Nothing was recorded; decisions would go to {where}", file=sys.stderr)
     return result or 0
