@@ -150,11 +150,12 @@ class WalkApp(App[int]):
         r = self.walk.review
         if r is None:
             return
-        pane = self.query_one("#tabs").size.width
+        pane = self.query_one("#tabs").size.width - 3  # room for the scroll bar
         self.query_one("#timing-picture", Picture).show(
-            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - 17), r.findings)))
+            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - pictures.LEAD),
+                                              r.findings)))
         self.query_one("#spectrum-picture", Picture).show(
-            "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 23))))
+            "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 10))))
 
     def on_resize(self) -> None:
         if self.walk.snapshot.ok:

@@ -61,9 +61,10 @@ class ChoiceDialog(ModalScreen[bool]):
             if self.choices:
                 yield OptionList(*[Option(f"{k}  {words}", id=v) for k, v, words in self.choices],
                                  id="choice")
+                yield Static("", classes="chosen", id="chosen", markup=False)
                 yield Static("", classes="warning", id="warning", markup=False)
             yield Static(self.note_label, classes="label", markup=False)
-            yield Input(self.note, placeholder=f"{self.note_label} (Enter to save)", id="note")
+            yield Input(self.note, placeholder="type here; Enter saves", id="note")
             yield Static("Who accepts it (name and role): the person answerable for the hazard",
                          classes="label", id="who-label", markup=False)
             yield Input(self.who, placeholder="who accepts it, e.g. A. Person, lead engineer",
@@ -98,6 +99,10 @@ class ChoiceDialog(ModalScreen[bool]):
         """Show the warning and the who-accepts box that the current choice calls for."""
         v = self.value
         if self.choices:
+            words = next((w for _, c, w in self.choices if c == v), None)
+            self.query_one("#chosen", Static).update(
+                f"Chosen: {words}" if words else "Nothing chosen yet: press a letter or ↑↓ and "
+                "Enter")
             text = self.warn(v) if (v and self.warn) else ""
             w = self.query_one("#warning", Static)
             w.update(text)

@@ -47,6 +47,29 @@ def _axis(t0: float, t1: float, width: int, lead: str) -> list[str]:
     return [lead + "".join(marks).replace(" ", "─"), pad + "".join(labels)]
 
 
+_DRAWN = set(ON + OFF + EDGE + OVERLAP + "┴─├┤┃▌┗")
+
+
+def wrap_text(lines: list[str], total: int) -> list[str]:
+    """Wrap the sentences among ``lines`` to ``total`` columns; drawn rows are kept as they are
+    (they are made to fit)."""
+    import textwrap
+
+    out: list[str] = []
+    for line in lines:
+        if len(line) <= total or any(ch in _DRAWN for ch in line):
+            out.append(line)
+            continue
+        indent = len(line) - len(line.lstrip(" "))
+        out += textwrap.wrap(line, max(total, 20), subsequent_indent=" " * (indent + 2),
+                             break_on_hyphens=False) or [""]
+    return out
+
+
+LEAD = 14
+"""Columns of a timing diagram's row labels."""
+
+
 def _t_end(e: Edge) -> float:
     dead = e.dead or 0.0
     if e.has_switching:
@@ -115,8 +138,7 @@ def timing_lines(e: Edge, width: int = 60, t_end: float | None = None,
             gap = on_start - e.off_total
             summary += f" · both on: never (margin {render(gap, 's')})"
     lines += _axis(t0, t1, width, " " * lead_w)
-    lines.append(" " * lead_w + f"time from the {out} gate command; full width "
-                 f"{render(span, 's')}")
+    lines.append(" " * lead_w + f"from the {out} command; full width {render(span, 's')}")
     lines.append(summary)
     if e.has_switching:
         lines.append(f"{out}: turn-off delay {render(e.td_off, 's')}, off after "
@@ -134,8 +156,8 @@ def timing_picture(sheet: Sheet, width: int = 60, findings=()) -> list[str]:
     """Both edges of a leg, each at the corner its shoot-through finding was judged at, with
     the typical values drawn below it on the same time scale. Both legs of the bridge use the
     same parts and timing."""
-    lines = [f"Key: {ON} on   {EDGE} switching (estimated)   {OFF} off",
-             f"     {OVERLAP} both switches of the leg on (shoot-through)", ""]
+    lines = [f"Key: {ON} on  {EDGE} switching (estimated)  {OFF} off",
+             f"     {OVERLAP} both switches on (shoot-through)", ""]
     for incoming in ("high", "low"):
         run = worst_run(sheet, incoming, findings)
         worst = edge(sheet, incoming, run)
@@ -156,7 +178,7 @@ def timing_picture(sheet: Sheet, width: int = 60, findings=()) -> list[str]:
                                   "time scale")
         lines.append("")
     lines.append("Both legs use the same parts and dead time: this diagram holds for each leg.")
-    return lines
+    return wrap_text(lines, LEAD + max(width, 20))
 
 
 # spectrum ----------------------------------------------------------------------------------
@@ -288,7 +310,7 @@ def spectrum_lines(s: Spectrum, width: int = 60, height: int = 8, floor_db: floa
     lines.append(" " * lead + "─" * width)
     lines.append(" " * lead + "".join(ticks))
     lines.append("")
-    lines += thd_lines(s.thd_before, s.thd_after, s.target, width)
+    lines += thd_lines(s.thd_before, s.thd_after, s.target, max(10, width - 12))
     return lines
 
 
@@ -318,6 +340,10 @@ def thd_lines(before: float | None, after: float | None, target: float | None,
 
 
 def spectrum_picture(sheet: Sheet, width: int = 60) -> list[str]:
+    return wrap_text(_spectrum_picture(sheet, width), 8 + max(width, 20))
+
+
+def _spectrum_picture(sheet: Sheet, width: int = 60) -> list[str]:
     s = spectrum_data(sheet)
     if s is None:
         target = typical(sheet, "design.output.thd_target")

@@ -38,6 +38,17 @@ def fit_name(name: str, room: int) -> str:
     return name[:head] + "…" + (name[-tail:] if tail else "")
 
 
+def fit_item(item: Item, room: int) -> str:
+    """The entry's name in ``room`` columns: the rule's name shortened in its middle, the
+    subject (high / low) kept whole."""
+    f = item.finding
+    full = short_name(item)
+    if len(full) <= room or not f.subject or len(f.subject) + 6 > room:
+        return fit_name(full, room)
+    rid = f.rule_id.removeprefix(f.area + ".")
+    return fit_name(rid, room - len(f.subject) - 1) + " " + f.subject
+
+
 def item_mark_key(walk: Walk, item: Item) -> str:
     """The meaning a list entry is marked with (an answered question the design contradicts
     is marked as a contradiction, never as answered)."""
@@ -64,7 +75,7 @@ def item_prompt(walk: Walk, item: Item, width: int = 40, two_lines: bool = False
         tail = "   "
     name_w = max(8, width - 13)
     full = short_name(item)
-    name = full if two_lines else fit_name(full, name_w)
+    name = full if two_lines else fit_item(item, name_w)
     t = Text()
     t.append(f"{sym} {word:<6}", style=style)
     t.append(" ")

@@ -30,13 +30,13 @@ class FindingList(OptionList):
             by_area.setdefault(i.area, []).append(i)
         options: list[Option] = []
         room = max(8, width - 13)
-        shown = [views.fit_name(views.short_name(i), room) for i in items]
+        shown = [views.fit_item(i, room) for i in items]
         alike = {n for n in shown if shown.count(n) > 1}
         for area, group in by_area.items():
             options.append(Option(views.area_header(area, group, walk), id=f"area:{area}",
                                   disabled=True))
             options += [Option(views.item_prompt(
-                walk, i, width, two_lines=views.fit_name(views.short_name(i), room) in alike),
+                walk, i, width, two_lines=views.fit_item(i, room) in alike),
                 id=i.key) for i in group]
         if not items:
             options.append(Option(Text("Nothing to review here: no finding fails, asks or needs "
