@@ -133,7 +133,11 @@ class WalkApp(App[int]):
         bad = not walk.snapshot.ok and walk.snapshot.problems
         problems = self.query_one("#problems", Static)
         problems.display = bool(bad)
-        self.query_one("#body").display = not bad
+        body = self.query_one("#body")
+        reshown = not bad and not body.display
+        body.display = not bad
+        if reshown:  # widths are known only after the next layout: fit everything then
+            self.call_after_refresh(self.relayout)
         if bad:
             problems.update(views.problems(list(walk.snapshot.problems),
                                            "The design file did not load:"))
@@ -159,7 +163,15 @@ class WalkApp(App[int]):
 
     def on_resize(self) -> None:
         if self.walk.snapshot.ok:
-            self.call_after_refresh(self.show_all)
+            self.call_after_refresh(self.relayout)
+
+    def relayout(self) -> None:
+        """Fit the list and the pictures to the widths they have now (after a resize, or when
+        the body is shown again once a broken design file has been fixed)."""
+        if not self.walk.snapshot.ok or not self.query_one("#body").display:
+            return
+        self.selected = self.query_one(FindingList).show(self.walk, self.selected)
+        self.show_pictures()
 
     @on(OptionList.OptionHighlighted, "#findings")
     def _highlighted(self, event: OptionList.OptionHighlighted) -> None:

@@ -20,11 +20,20 @@ class FindingList(OptionList):
     """
 
     _keys: list[str] = []
+    _drawn_width: int = 0
+
+    def on_resize(self, event) -> None:
+        """Redraw at the new width (the entries are fitted to it), once the size is known."""
+        width = self.scrollable_content_region.width
+        if width and width != self._drawn_width and hasattr(self.app, "relayout"):
+            self.app.call_later(self.app.relayout)
 
     def show(self, walk: Walk, keep: str | None) -> str | None:
         """Rebuild from ``walk``; keep ``keep`` highlighted if still listed. Returns the key."""
         items = walk.items()
-        width = max(24, (self.scrollable_content_region.width or 40) - 3)
+        self._drawn_width = self.scrollable_content_region.width
+        spare = 1 if self.show_vertical_scrollbar else 3  # a scroll bar may yet appear
+        width = max(24, (self.scrollable_content_region.width or 40) - spare)
         by_area: dict[str, list] = {}
         for i in items:
             by_area.setdefault(i.area, []).append(i)
@@ -77,7 +86,15 @@ class FindingList(OptionList):
 
 
 class Picture(VerticalScroll):
-    """A scrollable text picture that is never wrapped."""
+    """A scrollable text picture that is never wrapped; drawn again when its width changes."""
+
+    _drawn_width: int = 0
+
+    def on_resize(self, event) -> None:
+        if self.size.width and self.size.width != self._drawn_width \
+                and hasattr(self.app, "relayout"):
+            self._drawn_width = self.size.width
+            self.app.call_later(self.app.relayout)
 
     DEFAULT_CSS = """
     Picture { height: 1fr; }
