@@ -149,3 +149,33 @@ def test_keys_without_brackets_and_one_reviewer_option(tmp_path, capsys):
     # an answer the design file contradicts is flagged at once
     assert main(["answer", str(design), "checklist.dead-time-enforced", "yes"]) == 0
     assert "contradicts the design file" in capsys.readouterr().err
+
+
+def test_new_starter_reaches_every_check_and_names_its_placeholders(tmp_path, capsys):
+    """The full starter has every table: no check lacks data, the shoot-through checks run.
+    Its invented values are listed until replaced; the thin one is still there."""
+    from reviewer.report.placeholders import unchanged
+    from reviewer.review import review_file
+
+    target = tmp_path / "mine.toml"
+    assert main(["new", str(target)]) == 0
+    r = review_file(target, use_record=False)
+    assert not r.by_outcome("needs_data")
+    shoot = [f for f in r.findings if f.rule_id == "timing.shoot-through"]
+    assert shoot and all(f.outcome in ("pass", "fail") for f in shoot)
+    left = unchanged(target)
+    assert "switch.high.vds_rating" in left and "design.title" in left
+    lines = target.read_text(encoding="utf-8").splitlines()
+    i = next(n for n, line in enumerate(lines) if line.startswith("vds_rating"))  # switch.high
+    lines[i] = 'vds_rating = "60 V"'
+    target.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    after = unchanged(target)
+    assert "switch.high.vds_rating" not in after and len(after) == len(left) - 1
+    capsys.readouterr()
+    assert main(["check", str(target), "--color", "never"]) == 0
+    assert "placeholder values are still as the starter wrote them" in capsys.readouterr().out
+    thin = tmp_path / "thin.toml"
+    assert main(["new", str(thin), "--minimal"]) == 0
+    assert len(thin.read_text(encoding="utf-8")) < len(target.read_text(encoding="utf-8")) / 3
+    assert not unchanged(thin)
+    review_file(thin, use_record=False)  # loads

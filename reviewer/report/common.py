@@ -35,10 +35,10 @@ MARK = {
     "hazard": ("▲", "bold red", "bold reverse"),
     "risk": ("◆", "bold dark_orange", "bold"),
     "advice": ("●", "cyan", ""),
-    "open": ("?", "bold magenta", "bold underline"),
+    "open": ("?", "bold medium_purple1", "bold underline"),
     "needs_data": ("∅", "yellow", "italic"),
     "pass": ("✓", "green", "dim"),
-    "answered": ("✎", "blue", "dim"),
+    "answered": ("✎", "steel_blue1", "dim"),
     "not_applicable": ("–", "dim", "dim"),
     "conflict": ("≠", "bold reverse red", "bold reverse"),
 }

@@ -64,6 +64,11 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
     out.append("")
     if d.notes:
         out += [f"*Designer's notes:* {d.notes}", ""]
+    from reviewer.report.placeholders import sentence, unchanged
+
+    left = unchanged(r.path)
+    if left:
+        out += [f"> **Placeholders.** {sentence(left)}", ""]
     if r.beyond_elv:  # one caution: it says the review is an aid, not an approval, as well
         out += [f"> **CAUTION: beyond extra-low voltage.** {CAUTION}", ""]
     else:

@@ -67,6 +67,11 @@ def _one(console, r: Review, show_passed: bool) -> None:
         head.append(f"  rev {d.revision}")
     head.append(f"\n{r.path}", style="dim")
     console.print(head)
+    from reviewer.report.placeholders import sentence, unchanged
+
+    left = unchanged(r.path)
+    if left:
+        console.print(Text(sentence(left), style="bold"))
     if r.beyond_elv:
         console.print(Panel(CAUTION, title="CAUTION: beyond extra-low voltage", style="bold red"))
     counts = r.counts()

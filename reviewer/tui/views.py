@@ -297,6 +297,15 @@ def _said(f) -> str:
             "answered": "is answered", "not_applicable": "does not apply"}.get(f.outcome, f.outcome)
 
 
+def _why_no_effect(review, field_path: str) -> str:
+    """A reason the design itself gives for a change having no effect, or ''."""
+    shared = review.sheet.value("design.drive.shared_signal", False)
+    if shared and field_path.startswith("timing.dead_time"):
+        return (" while one signal feeds both switches of the leg (drive.shared_signal = true) "
+                "there is no dead time")
+    return ""
+
+
 def whatif_result(before, after, key: str | None, field_path: str, value: str) -> str:
     """What a what-if change did, in words: the selected finding first, then how many others
     changed outcome; says so plainly when nothing changed.
@@ -320,7 +329,8 @@ def whatif_result(before, after, key: str | None, field_path: str, value: str) -
                 lines.append(f"{name}: {still}; limit {common.num(f0.limit, f0.unit)} → "
                              f"{common.num(f1.limit, f1.unit)}")
             else:
-                lines.append(f"{name}: {still} — the change has no effect on it")
+                lines.append(f"{name}: {still} — the change has no effect on it"
+                             + _why_no_effect(after, field_path))
     moved = [k for k, f in new.items() if k != key and (k not in old or old[k].outcome != f.outcome)]
     if moved:
         lines.append(f"{len(moved)} other finding{'s' if len(moved) != 1 else ''} changed "
