@@ -179,3 +179,15 @@ def test_new_starter_reaches_every_check_and_names_its_placeholders(tmp_path, ca
     assert len(thin.read_text(encoding="utf-8")) < len(target.read_text(encoding="utf-8")) / 3
     assert not unchanged(thin)
     review_file(thin, use_record=False)  # loads
+
+
+def test_shell_completion_script_and_no_cost_elsewhere(capsys):
+    assert main(["completion", "bash"]) == 0
+    script = capsys.readouterr().out
+    for name in ("check", "walk", "decide", "--fail-on"):
+        assert name in script
+    probe = ("import sys, reviewer.cli as c; c.main(['check', sys.argv[1], '--format', 'json']); "
+             "print('shtab' in sys.modules, 'textual' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", probe, str(example("careful_12v_sine"))],
+                         capture_output=True, text=True, timeout=120).stdout.splitlines()[-1]
+    assert out == "False False"  # neither the completion library nor Textual on check's path

@@ -12,6 +12,9 @@ def register(sub) -> None:
     w = sub.add_parser("walk", help="walk through the findings of a design, deciding each one")
     w.add_argument("design", type=Path, metavar="DESIGN")
     add_rule_options(w)
+    w.add_argument("--color", choices=("auto", "always", "never"), default="auto",
+                   help="colour: auto (unless NO_COLOR is set), always, or never (the "
+                        "monochrome style NO_COLOR gives)")
     w.add_argument("--reviewer", "--by", dest="reviewer", default=None,
                    help="name written with each decision (default: your user name)")
 
@@ -21,6 +24,12 @@ def run(args: argparse.Namespace) -> int:
 
     if not args.design.is_file():  # nothing to watch: say so on the command line
         raise InputError([Problem(str(args.design), None, "", "no such design file")])
+    import os
+
+    if args.color == "never":
+        os.environ["NO_COLOR"] = "1"
+    elif args.color == "always":
+        os.environ.pop("NO_COLOR", None)
     from reviewer.tui.app import WalkApp
     from reviewer.tui.session import Walk
 

@@ -170,6 +170,12 @@ def glance(walk: Walk, busy: bool = False) -> Text:
     t.append(f"  {sym} {c['passed']} passed", style=style)
     if c["orphans"]:
         t.append(f"  {c['orphans']} kept decision(s) without a finding", style="dim")
+    from reviewer.report.placeholders import unchanged
+
+    left = unchanged(walk.path)
+    if left:
+        t.append(f"  ⚑ {len(left)} starter placeholder{'s' if len(left) != 1 else ''} unchanged",
+                 style="bold")
     if busy:
         t.append("  reviewing…", style="italic")
     return t
