@@ -138,10 +138,11 @@ def test_keys_without_brackets_and_one_reviewer_option(tmp_path, capsys):
     decisions = rec.load(rec.record_path(design)).decisions
     assert decisions["timing.shoot-through[high]"].reviewer == "ana"
     assert decisions["timing.shoot-through[low]"].reviewer == "bo"
-    # accepting a hazard asks who accepts it
+    # accepting a hazard keeps who accepts it: the reviewer unless someone else is named
     assert main(["decide", str(design), "timing.no-dead-time", "--as", "accepted",
-                 "--note", "bench only"]) == 2
+                 "--note", "bench only", "--reviewer", "ana"]) == 0
     assert "--accepted-by" in capsys.readouterr().err
+    assert rec.load(rec.record_path(design)).decisions["timing.no-dead-time"].accepted_by == "ana"
     assert main(["decide", str(design), "timing.no-dead-time", "--as", "accepted",
                  "--note", "bench only", "--accepted-by", "A. Lead, owner"]) == 0
     d = rec.load(rec.record_path(design)).decisions["timing.no-dead-time"]

@@ -35,6 +35,9 @@ def register(sub) -> None:
 def bracketed(review, key: str) -> str:
     """``timing.dead-time-margin.high`` for ``timing.dead-time-margin[high]``: keys without
     brackets, for shells that glob them. The key as given when it names a finding already."""
+    from reviewer.aliases import current_key
+
+    key = current_key(key)
     if "[" in key or review.finding(key) is not None or "." not in key:
         return key
     head, _, subject = key.rpartition(".")
@@ -61,11 +64,13 @@ def run(args: argparse.Namespace) -> int:
     by = args.by if args.by is not None else rec.reviewer_name()
     try:
         record = rec.decide(record, f, args.kind, args.note, by)
-        if args.kind == "accepted" and f.severity == "hazard" and not args.accepted_by.strip():
-            raise rec.DecisionError("accepting a hazard needs --accepted-by: who accepts it "
-                                    "(name and role), as well as --note saying why")
     except rec.DecisionError as e:
         raise InputError([Problem(str(args.design), None, f.key, str(e))]) from None
+    if args.kind == "accepted" and f.severity == "hazard" and not args.accepted_by.strip():
+        # who accepts a hazard is always kept: the reviewer, unless someone else is named
+        args.accepted_by = by or "the reviewer (unnamed)"
+        print(f"note: {f.key} is a hazard: recorded as accepted by {args.accepted_by}; give "
+              "--accepted-by 'NAME, ROLE' to name the person who accepts it", file=sys.stderr)
     if args.kind == "accepted" and args.accepted_by.strip():
         from dataclasses import replace
 

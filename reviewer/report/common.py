@@ -17,7 +17,7 @@ LABEL = {
 }
 
 
-AREA_NAME = {"band": "voltage class"}
+AREA_NAME = {"band": "voltage class", "voltage-class": "voltage class"}
 """Areas as a reader names them, where the rule files' short name is not a word of the trade."""
 
 
@@ -148,6 +148,8 @@ def decision(d, state: str | None = None) -> str:
     """'accepted (ana, 2026-12-01): reason [current]': one line for a decision."""
     text = KIND_LABEL.get(d.kind, d.kind)
     by = getattr(d, "accepted_by", "")
+    if by == d.reviewer:  # the reviewer accepts it: '(ana, date)' already says who
+        by = ""
     if by:
         text += f" by {by}"
     who = ", ".join(x for x in (d.reviewer, d.at[:10]) if x)

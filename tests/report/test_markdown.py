@@ -86,7 +86,7 @@ def hand_review(series=None, timing=True) -> Review:
                 question="Are the output terminals guarded?", outcome="answered"),
         finding("thermal.junction", "high", title="Junction temperature", outcome="needs_data",
                 needs=("switch.high.rth_jc",)),
-        finding("band.bus-elv", title="Bus within extra-low voltage", severity="hazard",
+        finding("voltage-class.bus-elv", title="Bus within extra-low voltage", severity="hazard",
                 outcome="pass", unit="V", relation="≤", value=24.0, limit=120.0, margin=96.0,
                 basis="standard"),
         finding("stress.vds-rating", "high", title="Drain-source peak within the rating",
