@@ -34,6 +34,18 @@ DECISIONS = [("c", "will_change", "will change the design"),
 ANSWERS = [("y", "yes", "yes"), ("n", "no", "no"), ("x", "not_applicable", "does not apply (say why)")]
 
 
+SAID = {"'accepted'": "accepting", "'not_applicable'": "saying it does not apply",
+        "'will_change'": "will change", "'undecided'": "undecided"}
+"""The record's names of decisions as the walkthrough says them."""
+
+
+def plain_words(message: str) -> str:
+    """A record message in the walkthrough's words (no snake_case names of values)."""
+    for name, words in SAID.items():
+        message = message.replace(name, words)
+    return message[:1].upper() + message[1:]
+
+
 class WalkApp(App[int]):
     """``reviewer walk DESIGN``: take the reviewer through every finding of one design."""
 
@@ -228,8 +240,10 @@ class WalkApp(App[int]):
         """Run a record change; an error message for a dialog, or None after saving."""
         try:
             do()
-        except (DecisionError, OSError) as e:
-            return str(e)
+        except DecisionError as e:
+            return plain_words(str(e))
+        except OSError as e:
+            return f"the record could not be saved: {e}"
         self._after_record()
         return None
 
