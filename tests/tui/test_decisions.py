@@ -168,3 +168,34 @@ async def test_export_refused_early_when_the_design_does_not_load(broken):
         from reviewer.tui.dialogs import PathDialog
 
         assert not isinstance(app.screen, PathDialog)
+
+
+async def test_every_entry_distinguishable_at_80_by_24(naive, mains):
+    for path in (naive, mains):
+        app = make(path)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await settle(app, pilot)
+            app.walk.show_passed = True  # the longest list
+            app.show_all()
+            await pilot.pause()
+            ol = app.query_one("#findings")
+            shown = [ol.get_option_at_index(i).prompt.plain for i in range(ol.option_count)
+                     if not ol.get_option_at_index(i).disabled]
+            assert len(shown) == len(set(shown)), [s for s in shown if shown.count(s) > 1]
+            width = ol.scrollable_content_region.width
+            assert all(len(line) <= width for s in shown for line in s.splitlines())
+
+
+async def test_whatif_unknown_field_gets_a_suggestion(naive):
+    app = make(naive)
+    async with app.run_test(size=(100, 32)) as pilot:
+        await settle(app, pilot)
+        await pilot.press("w")
+        await pilot.pause()
+        d = app.screen
+        d.query_one("#field").value = "timing.dead_tim"
+        d.query_one("#value").value = "800 ns"
+        d.query_one("#why").focus()
+        await pilot.press("enter")
+        await pilot.pause()
+        assert "did you mean" in str(d.query_one("#error").content)
