@@ -113,16 +113,16 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
 
 
 def _summary(r: Review) -> list[str]:
-    cols = [*SEVERITIES, "needs_data", "open", "pass"]
+    cols = [*SEVERITIES, "needs_data", "open", "answered", "pass"]
     areas = sorted({f.area for f in r.findings})
     table: dict[str, dict[str, int]] = {a: dict.fromkeys(cols, 0) for a in areas}
     for f in r.findings:
         key = f.severity if f.outcome == "fail" else f.outcome
         if key in cols:
             table[f.area][key] += 1
-    heads = ["Hazard", "Risk", "Advice", "Needs data", "Open", "Passed"]
+    heads = ["Hazard", "Risk", "Advice", "Needs data", "Open", "Answered", "Passed"]
     out = ["## Summary", "", "Failing findings by area and severity, with the checks that could "
-           "not run, the open questions and the checks that passed.", "",
+           "not run, the open and the answered questions, and the checks that passed.", "",
            "| Area | " + " | ".join(heads) + " |", "|---|" + "---:|" * len(heads)]
     for a in areas:
         if not any(table[a].values()):  # an area with nothing in any column says nothing

@@ -11,11 +11,9 @@ from reviewer.review import AID_NOTE, CAUTION, Review
 PIPED_WIDTH = 100
 """Columns of the report when it does not go to a terminal (a file, a pipe)."""
 
-_COLOR = False  # set for the duration of one render: the styles follow it
-
-
 def _style(key: str) -> str:
-    return common.style(key, _COLOR)
+    """The colour of a meaning (without colour the console writes no styles at all)."""
+    return common.style(key, True)
 
 
 def terminal_width() -> int:
@@ -39,8 +37,6 @@ def render(reviews: list[Review], color: bool | None = None, width: int | None =
     and colours are those of the walkthrough (:data:`reviewer.report.common.MARK`)."""
     from rich.console import Console
 
-    global _COLOR
-    _COLOR = bool(color)
     buf = StringIO()
     console = Console(file=buf, force_terminal=bool(color), no_color=not color,
                       width=width or terminal_width(), highlight=False, soft_wrap=False,
@@ -167,7 +163,7 @@ def _conflicts(console, r: Review) -> None:
     if not found:
         return
     console.print(Text(f"{common.mark('conflict')} Answers the design file contradicts "
-                       "(not taken as passes)", style=common.style("conflict", _COLOR)))
+                       "(not taken as passes)", style=_style("conflict")))
     for c in found:
         console.print(Text(f"  {c.question}: {c.text()}"))
     console.print()
