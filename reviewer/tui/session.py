@@ -422,23 +422,21 @@ class Walk:
         return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
 
     def field_hint(self, field_path: str) -> str:
-        """What a design field holds now, for the what-if dialog: 'now 0 s (as filed)'."""
+        """What a design field means and holds now, for the what-if dialog:
+        'Dead time at every edge (0 is legal and dangerous) · now 0 s'."""
         r = self.snapshot.filed
         if r is None or not field_path:
             return ""
         q = r.sheet.get(f"design.{field_path}")
+        meaning = field_description(field_path)
         if q is None:
-            if f"design.{field_path}" in r.sheet.missing:
-                return "not given in the design file"
+            if f"design.{field_path}" in r.sheet.missing or meaning:
+                return (meaning + " · " if meaning else "") + "not given in the design file"
             return "not a design field of this design: → accepts a suggestion"
         p = self.record.proposals.get(field_path)
-        now = self.field_value(field_path) if p is None else p.value
-        filed = (self.snapshot.filed.sheet.get(f"design.{field_path}"))
-        label = f"{q.label}: " if q.label and q.label != q.name else ""
-        unit = f" [{q.unit}]" if q.unit else ""
-        text = f"{label}now {now}{unit}"
-        if p is not None and filed is not None:
-            text += " (a proposal; as filed " + _shown(filed) + ")"
+        text = (meaning + " · " if meaning else "") + f"now {_shown(q)}"
+        if p is not None:
+            text += f" as filed, {p.value} proposed"
         return text
 
     def design_fields(self) -> list[str]:
@@ -479,6 +477,30 @@ class Walk:
         inside = any(here == p or p in here.parents for p in packaged)
         base = Path.cwd() if inside else self.path.parent
         return base / "reviews" / (self.path.stem + ".review.md")
+
+
+def field_description(field_path: str) -> str:
+    """The design format's description of a field ('' when it has none)."""
+    import typing
+
+    from reviewer.design import model
+
+    cls: object = model.Design
+    parts = field_path.split(".")
+    for i, name in enumerate(parts):
+        fields = getattr(cls, "model_fields", {})
+        f = fields.get(name)
+        if f is None:
+            return ""
+        if i == len(parts) - 1:
+            return (f.description or "").rstrip(".")
+        ann = f.annotation
+        nxt = next((a for a in (typing.get_args(ann) or (ann,))
+                    if isinstance(a, type) and issubclass(a, model.Part)), None)
+        if nxt is None:
+            return ""
+        cls = nxt
+    return ""
 
 
 def _shown(q) -> str:
