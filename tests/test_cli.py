@@ -192,3 +192,20 @@ def test_shell_completion_script_and_no_cost_elsewhere(capsys):
     out = subprocess.run([sys.executable, "-c", probe, str(example("careful_12v_sine"))],
                          capture_output=True, text=True, timeout=120).stdout.splitlines()[-1]
     assert out == "False False"  # neither the completion library nor Textual on check's path
+
+
+def test_fail_on_counts_a_contradicted_answer(tmp_path, capsys):
+    """A "yes" the design file contradicts is not a pass: --fail-on hazard fails on it even
+    where every finding is settled. The careful example says enforced_in = "hardware"; changed
+    to "firmware" its "yes" is contradicted."""
+    import shutil
+
+    design = tmp_path / "c.toml"
+    shutil.copy(example("careful_12v_sine"), design)
+    assert main(["answer", str(design), "checklist.dead-time-enforced", "yes"]) == 0
+    assert main(["check", str(design), "--fail-on", "hazard"]) == 0
+    design.write_text(design.read_text(encoding="utf-8").replace(
+        'enforced_in = "hardware"', 'enforced_in = "firmware"'), encoding="utf-8")
+    capsys.readouterr()
+    assert main(["check", str(design), "--fail-on", "hazard"]) == 1
+    assert "contradict" in capsys.readouterr().out

@@ -52,7 +52,7 @@ def run(args: argparse.Namespace) -> int:
         if args.output is not None:  # the one writer, shared with the walkthrough's export
             view.write(reviews, args.output, with_pictures=not args.no_pictures,
                        tell=lambda message: print(message, file=sys.stderr))
-            return 1 if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews) else 0
+            return 1 if args.fail_on and _fails(reviews, args.fail_on) else 0
         text = view.render(reviews)
     else:
         from reviewer.report import text as view
@@ -60,6 +60,23 @@ def run(args: argparse.Namespace) -> int:
         text = view.render(reviews, color=use_color(args.color) and args.output is None,
                            show_passed=not args.no_passed)
     emit(text, args.output)
-    if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews):
+    if args.fail_on and _fails(reviews, args.fail_on):
         return 1
     return 0
+
+
+def _fails(reviews, level: str) -> bool:
+    """Something at or above ``level`` fails: an unsettled finding, or an answer the design file
+    contradicts (never taken as a pass)."""
+    from reviewer.findings import SEVERITIES
+    from reviewer.report.conflicts import conflicts
+
+    worst = SEVERITIES.index(level)
+    for r in reviews:
+        if r.unsettled(level):
+            return True
+        for c in conflicts(r):
+            f = next((x for x in r.findings if x.rule_id == c.question), None)
+            if f is not None and SEVERITIES.index(f.severity) <= worst:
+                return True
+    return False
