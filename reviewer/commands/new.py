@@ -26,5 +26,7 @@ def run(args: argparse.Namespace) -> int:
         raise InputError([Problem(str(target), None, "", "already exists; not overwritten")])
     starter = "starter_minimal.toml" if getattr(args, "minimal", False) else "starter.toml"
     write_text(target, files("reviewer").joinpath(starter).read_text(encoding="utf-8"))
-    print(f"wrote {target}: fill it in, then run: reviewer check {target}", file=sys.stderr)
+    hint = "" if starter == "starter_minimal.toml" else (
+        " (every value is a placeholder: each review lists those still unchanged)")
+    print(f"wrote {target}: fill it in, then run: reviewer check {target}{hint}", file=sys.stderr)
     return 0
