@@ -80,6 +80,15 @@ def title(f: Finding) -> str:
     return f.title
 
 
+OUTCOME_WORD = {"fail": "fail", "pass": "pass", "needs_data": "needs data", "open": "open",
+                "answered": "answered", "not_applicable": "does not apply", "absent": "absent"}
+"""A finding's outcome as a reader says it."""
+
+
+def outcome_word(outcome: str) -> str:
+    return OUTCOME_WORD.get(outcome, outcome.replace("_", " "))
+
+
 def num(value: float | None, unit: str) -> str:
     return "—" if value is None else render(value, unit)
 
@@ -171,7 +180,7 @@ def _numbers(value: float | None, limit: float | None, unit: str, outcome: str) 
         parts.append(f"limit {num(limit, unit)}")
     text = ", ".join(parts)
     if outcome:
-        text += f" ({outcome})" if text else outcome
+        text += f" ({outcome_word(outcome)})" if text else outcome_word(outcome)
     return text
 
 

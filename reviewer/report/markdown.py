@@ -222,7 +222,8 @@ def _findings(r: Review) -> list[str]:
                         f"{_cell(common.num(f.value, f.unit))} |",
                         f"| limit | {_cell(common.num(d.limit, d.unit))} | "
                         f"{_cell(common.num(f.limit, f.unit))} |",
-                        f"| outcome | {d.outcome} | {f.outcome} |", ""]
+                        f"| outcome | {common.outcome_word(d.outcome)} | "
+                        f"{common.outcome_word(f.outcome)} |", ""]
     return out
 
 

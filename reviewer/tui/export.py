@@ -35,7 +35,9 @@ def whatif_section(filed: Review, current: Review | None) -> str:
                 "computed with them.", ""]
     elif moved:
         out += ["| Check | As filed | With the changes |", "|---|---|---|"]
-        out += [f"| `{k}` | {a} | {b} |" for k, a, b in moved]
+        from reviewer.report.common import outcome_word
+
+        out += [f"| `{k}` | {outcome_word(a)} | {outcome_word(b)} |" for k, a, b in moved]
         out.append("")
     else:
         out += ["No check changes its outcome.", ""]

@@ -254,8 +254,8 @@ def detail(walk: Walk, item: Item | None) -> Text:
     t.append("\n")
     _row(t, "Source", f"{f.reference} ({common.basis(f)})" if f.reference else common.basis(f))
     if item.filed is not None and item.current is not None and item.changed:
-        _row(t, "What-if", f"as filed {item.filed.outcome}, with the proposals {item.current.outcome}",
-             "bold")
+        _row(t, "What-if", f"as filed {common.outcome_word(item.filed.outcome)}, with the "
+             f"proposals {common.outcome_word(item.current.outcome)}", "bold")
         if item.filed.value is not None:
             _row(t, "As filed", common.computed(item.filed))
     if not f.question:
