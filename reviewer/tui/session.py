@@ -253,12 +253,17 @@ class Walk:
                  or (i.current and i.current.outcome in NEEDS_ATTENTION)
                  or (i.filed and i.filed.outcome in NEEDS_ATTENTION)
                  or self.conflicts_of(i)]
+        def order(i: Item) -> tuple:  # an answer the design contradicts ranks as a failure
+            k = i.sort_key()
+            return (_GROUP["fail"], *k[1:]) if self.conflicts_of(i) else k
+
         areas: dict[str, list[Item]] = {}
-        for i in sorted(shown, key=Item.sort_key):
+        for i in sorted(shown, key=order):
             areas.setdefault(i.area, []).append(i)
+
         def rank(area: str) -> tuple:
-            worst = areas[area][0].sort_key()[:2]  # the area's worst item, then how many such
-            return (worst, -sum(1 for i in areas[area] if i.sort_key()[:2] == worst), area)
+            worst = order(areas[area][0])[:2]  # the area's worst item, then how many such
+            return (worst, -sum(1 for i in areas[area] if order(i)[:2] == worst), area)
 
         order = sorted(areas, key=rank)
         return [i for a in order for i in areas[a]]
