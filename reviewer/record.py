@@ -44,6 +44,9 @@ class Decision:
     value: float | None = None
     limit: float | None = None
     unit: str = ""
+    accepted_by: str = ""
+    """Who accepts the finding as it stands (name and role), kept apart from the reviewer who
+    recorded it; asked for when a hazard is accepted."""
 
 
 @dataclass(frozen=True)
@@ -248,6 +251,10 @@ def load(path: str | Path, design: str = "") -> Record:
                 problems.append(Problem(str(p), line_of(lines, where + ("kind",)),
                                         f"{name}[{i}].kind", f"expected one of {KINDS}, found {item.kind!r}"))
                 continue
+            if name == "decision":  # a renamed rule's old id names its finding still
+                from reviewer.aliases import current_key
+
+                item = replace(item, key=current_key(item.key))
             out[name][getattr(item, key)] = item
     if problems:
         raise InputError(problems)

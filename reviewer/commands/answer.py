@@ -18,7 +18,8 @@ def register(sub) -> None:
     a.add_argument("question", metavar="QUESTION-ID")
     a.add_argument("answer", choices=ANSWERS)
     a.add_argument("--note", default="", help="a note (required for not_applicable)")
-    a.add_argument("--by", default=None, help="reviewer name (default: the user name)")
+    a.add_argument("--reviewer", "--by", dest="by", default=None,
+                   help="name written with the answer (default: your user name)")
     from reviewer.commands._common import add_rule_options
 
     add_rule_options(a)
@@ -42,4 +43,9 @@ def run(args: argparse.Namespace) -> int:
         raise InputError([Problem(str(args.design), None, args.question, str(e))]) from None
     path = save(review, args.design, record)
     print(f"{path}: {args.question}: {args.answer}", file=sys.stderr)
+    from reviewer.report.conflicts import answer_conflicts
+
+    for c in answer_conflicts(review.sheet, args.question, args.answer):
+        print(f"warning: {args.question}: {c.text()}; the answer is recorded, and every report "
+              "shows the contradiction until the design or the answer changes", file=sys.stderr)
     return 0

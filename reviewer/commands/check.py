@@ -25,6 +25,8 @@ def register(sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    import sys
+
     from reviewer.errors import InputError
     from reviewer.review import review_file
 
@@ -47,36 +49,34 @@ def run(args: argparse.Namespace) -> int:
     elif args.format == "markdown":
         from reviewer.report import markdown as view
 
-        pictures = {}
-        if args.output is not None and not args.no_pictures:
-            pictures = _pictures(reviews, args.output)
-        text = view.render(reviews, pictures=pictures)
+        if args.output is not None:  # the one writer, shared with the walkthrough's export
+            view.write(reviews, args.output, with_pictures=not args.no_pictures,
+                       tell=lambda message: print(message, file=sys.stderr))
+            return 1 if args.fail_on and _fails(reviews, args.fail_on) else 0
+        text = view.render(reviews)
     else:
         from reviewer.report import text as view
 
         text = view.render(reviews, color=use_color(args.color) and args.output is None,
                            show_passed=not args.no_passed)
     emit(text, args.output)
-    if args.fail_on and any(r.unsettled(args.fail_on) for r in reviews):
+    if args.fail_on and _fails(reviews, args.fail_on):
         return 1
     return 0
 
 
-def _pictures(reviews, output: Path) -> dict:
-    """Write each review's pictures beside ``output``; {review path: [(caption, link)]}."""
-    import sys
+def _fails(reviews, level: str) -> bool:
+    """Something at or above ``level`` fails: an unsettled finding, or an answer the design file
+    contradicts (never taken as a pass)."""
+    from reviewer.findings import SEVERITIES
+    from reviewer.report.conflicts import conflicts
 
-    from reviewer.report import pictures
-
-    out = {}
+    worst = SEVERITIES.index(level)
     for r in reviews:
-        stem = output.stem if len(reviews) == 1 else f"{output.stem}.{Path(r.path).stem}"
-        try:
-            made = pictures.write_pictures(r, output.parent, stem)
-        except pictures.PicturesUnavailable as e:
-            print(f"note: pictures left out: {e}", file=sys.stderr)
-            return {}
-        for _, name in made:
-            print(f"wrote {output.parent / name}", file=sys.stderr)
-        out[r.path] = made
-    return out
+        if r.unsettled(level):
+            return True
+        for c in conflicts(r):
+            f = next((x for x in r.findings if x.rule_id == c.question), None)
+            if f is not None and SEVERITIES.index(f.severity) <= worst:
+                return True
+    return False

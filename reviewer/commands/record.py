@@ -71,6 +71,12 @@ def text(review, path: Path) -> str:
         for qid, a in sorted(review.record.answers.items()):
             who = f" ({a.reviewer}, {a.at[:10]})" if a.reviewer else ""
             lines.append(f"  {qid}: {a.answer}{': ' + a.note if a.note else ''}{who}")
+    from reviewer.report.conflicts import conflicts
+
+    clash = conflicts(review)
+    if clash:
+        lines += ["", "Answers the design file contradicts (not taken as passes):"]
+        lines += [f"  ≠ {c.question}: {c.text()}" for c in clash]
     open_q = review.by_outcome("open")
     if open_q:
         lines += ["", "Open questions:"]

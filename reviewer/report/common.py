@@ -17,8 +17,76 @@ LABEL = {
 }
 
 
+AREA_NAME = {"band": "voltage class", "voltage-class": "voltage class"}
+"""Areas as a reader names them, where the rule files' short name is not a word of the trade."""
+
+
+def area_name(area: str) -> str:
+    return AREA_NAME.get(area, area)
+
+
 def label(f: Finding) -> str:
     return LABEL[f.severity if f.outcome == "fail" else f.outcome]
+
+
+# marks: one symbol, one colour and one monochrome style per meaning, for every view ---------------
+MARK = {
+    # meaning: (symbol, colour style, style without colour)
+    "hazard": ("▲", "bold red", "bold reverse"),
+    "risk": ("◆", "bold dark_orange", "bold"),
+    "advice": ("●", "cyan", ""),
+    "open": ("?", "bold medium_purple1", "bold underline"),
+    "needs_data": ("∅", "yellow", "italic"),
+    "pass": ("✓", "green", "dim"),
+    "answered": ("✎", "steel_blue1", "dim"),
+    "not_applicable": ("–", "dim", "dim"),
+    "conflict": ("≠", "bold reverse red", "bold reverse"),
+}
+"""Failing findings by severity, then the other outcomes; "conflict" marks an answer that the
+design file contradicts. The symbol and the word carry the meaning; colour is an extra."""
+
+DECISION_SYMBOL = {
+    None: "[ ]", "undecided": "[ ]", "will_change": "[→]", "accepted": "[A]",
+    "not_applicable": "[–]", "reconfirm": "[!]", "resolved": "[=]", "orphan": "[×]",
+}
+"""The mark of a decision (kind, or the state that overrides it) in lists."""
+
+
+def no_color() -> bool:
+    """True when the environment asks for no colour (``NO_COLOR`` set, any value)."""
+    import os
+
+    return "NO_COLOR" in os.environ
+
+
+def mark_key(f: Finding) -> str:
+    return f.severity if f.outcome == "fail" else f.outcome
+
+
+def style(key: str, color: bool | None = None) -> str:
+    """The style of a meaning: its colour, or its monochrome style without colour."""
+    sym, colour, mono = MARK[key]
+    use = (not no_color()) if color is None else color
+    return colour if use else mono
+
+
+def mark(key: str) -> str:
+    return MARK[key][0]
+
+
+def title(f: Finding) -> str:
+    """The heading a view gives a finding (one place to change when findings get a failing
+    title of their own)."""
+    return f.title
+
+
+OUTCOME_WORD = {"fail": "fail", "pass": "pass", "needs_data": "needs data", "open": "open",
+                "answered": "answered", "not_applicable": "does not apply", "absent": "absent"}
+"""A finding's outcome as a reader says it."""
+
+
+def outcome_word(outcome: str) -> str:
+    return OUTCOME_WORD.get(outcome, outcome.replace("_", " "))
 
 
 def num(value: float | None, unit: str) -> str:
@@ -51,7 +119,7 @@ def margin(f: Finding) -> str:
 
 def corner(f: Finding) -> str:
     if not f.corner:
-        return "typical values"
+        return "no toleranced input moves this"
     return ", ".join(f"{path} at {end}" for path, end in f.corner)
 
 
@@ -88,9 +156,14 @@ STATE_LABEL = {
 def decision(d, state: str | None = None) -> str:
     """'accepted (ana, 2026-12-01): reason [current]': one line for a decision."""
     text = KIND_LABEL.get(d.kind, d.kind)
+    by = getattr(d, "accepted_by", "")
+    if by == d.reviewer:  # the reviewer accepts it: '(ana, date)' already says who
+        by = ""
+    if by:
+        text += f" by {by}"
     who = ", ".join(x for x in (d.reviewer, d.at[:10]) if x)
     if who:
-        text += f" ({who})"
+        text += f" (recorded by {who})" if by else f" ({who})"
     if d.reason:
         text += f": {d.reason}"
     if state:
@@ -107,7 +180,7 @@ def _numbers(value: float | None, limit: float | None, unit: str, outcome: str) 
         parts.append(f"limit {num(limit, unit)}")
     text = ", ".join(parts)
     if outcome:
-        text += f" ({outcome})" if text else outcome
+        text += f" ({outcome_word(outcome)})" if text else outcome_word(outcome)
     return text
 
 

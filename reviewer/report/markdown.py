@@ -64,10 +64,17 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
     out.append("")
     if d.notes:
         out += [f"*Designer's notes:* {d.notes}", ""]
-    if r.beyond_elv:
+    from reviewer.report.placeholders import sentence, unchanged
+
+    left = unchanged(r.path)
+    if left:
+        out += [f"> **Placeholders.** {sentence(left)}", ""]
+    if r.beyond_elv:  # one caution: it says the review is an aid, not an approval, as well
         out += [f"> **CAUTION: beyond extra-low voltage.** {CAUTION}", ""]
-    out += [f"> {AID_NOTE}", ""]
+    else:
+        out += [f"> {AID_NOTE}", ""]
     out += _summary(r)
+    out += _conflicts(r)
     if pics:
         out += ["## Pictures", ""]
         for caption, link in pics:
@@ -106,32 +113,72 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
 
 
 def _summary(r: Review) -> list[str]:
-    cols = [*SEVERITIES, "needs_data", "open", "pass"]
+    cols = [*SEVERITIES, "needs_data", "open", "answered", "pass"]
     areas = sorted({f.area for f in r.findings})
     table: dict[str, dict[str, int]] = {a: dict.fromkeys(cols, 0) for a in areas}
     for f in r.findings:
         key = f.severity if f.outcome == "fail" else f.outcome
         if key in cols:
             table[f.area][key] += 1
-    heads = ["Hazard", "Risk", "Advice", "Needs data", "Open", "Passed"]
+    heads = ["Hazard", "Risk", "Advice", "Needs data", "Open", "Answered", "Passed"]
     out = ["## Summary", "", "Failing findings by area and severity, with the checks that could "
-           "not run, the open questions and the checks that passed.", "",
+           "not run, the open and the answered questions, and the checks that passed.", "",
            "| Area | " + " | ".join(heads) + " |", "|---|" + "---:|" * len(heads)]
     for a in areas:
-        out.append(f"| {a} | " + " | ".join(str(table[a][c]) for c in cols) + " |")
+        if not any(table[a].values()):  # an area with nothing in any column says nothing
+            continue
+        out.append(f"| {common.area_name(a)} | " + " | ".join(str(table[a][c]) for c in cols)
+                   + " |")
     total = {c: sum(table[a][c] for a in areas) for c in cols}
     out.append("| **all** | " + " | ".join(f"**{total[c]}**" for c in cols) + " |")
     out.append("")
     fails = r.failures
-    settled = sum(1 for f in fails if r.settled(f))
-    reconfirm = sum(1 for f in fails if r.state(f.key) == "reconfirm")
-    undecided = sum(1 for f in fails if r.decision(f.key) is None)
-    if fails:
-        out += [f"Of {_n(len(fails), 'failing finding')}: {settled} settled by a current decision, "
-                f"{reconfirm} awaiting re-confirmation, {undecided} without a decision.", ""]
+    buckets = dict.fromkeys(("settled", "reconfirm", "will_change", "undecided"), 0)
+    for f in fails:
+        buckets[_bucket(r, f)] += 1
+    if fails:  # every failing finding is in exactly one bucket: they add up
+        out += [f"Of {_n(len(fails), 'failing finding')}: {buckets['settled']} settled by a "
+                f"current decision, {buckets['will_change']} to be changed in the design, "
+                f"{buckets['reconfirm']} awaiting re-confirmation, {buckets['undecided']} "
+                "without a decision.", ""]
     else:
         out += ["No check fails.", ""]
     return out
+
+
+def _conflicts(r: Review) -> list[str]:
+    from reviewer.report.conflicts import conflicts
+
+    found = conflicts(r)
+    if not found:
+        return []
+    out = ["## Answers the design file contradicts", "",
+           "These checklist answers disagree with the design file itself; until the design or "
+           "the answer changes, they are not taken as passes.", ""]
+    out += [f"- **≠ `{c.question}`** answered *{c.answer}*, but the design file has "
+            f"`{c.field}` = {_cell(c.value)}: {c.message}." for c in found]
+    out.append("")
+    return out
+
+
+def _bucket(r: Review, f) -> str:
+    """The one bucket of a failing finding: settled, reconfirm, will_change or undecided."""
+    if r.settled(f):
+        return "settled"
+    d = r.decision(f.key)
+    if d is not None and r.state(f.key) == "reconfirm":
+        return "reconfirm"
+    if d is not None and d.kind == "will_change":
+        return "will_change"
+    return "undecided"
+
+
+def heading(f) -> str:
+    """A finding's heading, naming the side of the leg it is about ('… — high side')."""
+    title = common.title(f)
+    if f.subject in ("high", "low"):
+        return f"{title} — {f.subject} side"
+    return f"{title} ({f.subject})" if f.subject else title
 
 
 def _findings(r: Review) -> list[str]:
@@ -140,8 +187,8 @@ def _findings(r: Review) -> list[str]:
         return []
     out = ["## Findings", ""]
     for i, f in enumerate(fails, start=1):
-        out += [f"### {i}. {common.label(f)}: {f.title}", "",
-                f"`{f.key}` · area {f.area} · {f.severity}" +
+        out += [f"### {i}. {common.label(f)}: {heading(f)}", "",
+                f"`{f.key}` · area {common.area_name(f.area)} · {f.severity}" +
                 (" · settled by decision" if r.settled(f) else ""), ""]
         rows = []
         if f.value is not None:
@@ -169,13 +216,14 @@ def _findings(r: Review) -> list[str]:
         else:
             st = r.state(f.key)
             out += [f"**Decision.** {common.decision(d, st)}.", ""]
-            if st == "reconfirm":
+            if st in ("reconfirm", "resolved"):
                 out += ["| | Decided on | Now |", "|---|---|---|",
                         f"| value | {_cell(common.num(d.value, d.unit))} | "
                         f"{_cell(common.num(f.value, f.unit))} |",
                         f"| limit | {_cell(common.num(d.limit, d.unit))} | "
                         f"{_cell(common.num(f.limit, f.unit))} |",
-                        f"| outcome | {d.outcome} | {f.outcome} |", ""]
+                        f"| outcome | {common.outcome_word(d.outcome)} | "
+                        f"{common.outcome_word(f.outcome)} |", ""]
     return out
 
 
@@ -214,6 +262,10 @@ def _questions(r: Review) -> list[str]:
                 "design file" if a is None else "")
             word = "yes" if f.outcome == "answered" else "not applicable"
             note = a.note if a is not None else f.answer_note
+            from reviewer.report.conflicts import for_question
+
+            if for_question(r, f.rule_id):
+                word += " (≠ contradicted by the design file, see above)"
             out.append(f"| `{f.rule_id}` {_cell(f.question)} | {word} | {_cell(note)} | "
                        f"{_cell(who)} |")
         out.append("")
@@ -261,3 +313,60 @@ def _sheet(r: Review) -> list[str]:
         out += ["", "Not computed for lack of data:", "", "| Quantity | Give |", "|---|---|"]
         out += [f"| `{m.name}` | {_cell(', '.join(m.needs))} |" for m in missing]
     return out
+
+
+# writing a report file -----------------------------------------------------------------------
+def write_pictures(reviews: list[Review], output, tell=None) -> dict[str, Pictures]:
+    """Write each review's pictures beside ``output``; {review path: [(caption, link)]}.
+
+    ``tell(message)`` hears each file written and why pictures were left out (matplotlib
+    absent)."""
+    from pathlib import Path
+
+    from reviewer.report import pictures
+
+    tell = tell or (lambda message: None)
+    output = Path(output)
+    out: dict[str, Pictures] = {}
+    for r in reviews:
+        stem = output.stem if len(reviews) == 1 else f"{output.stem}.{Path(r.path).stem}"
+        try:
+            made = pictures.write_pictures(r, output.parent, stem)
+        except pictures.PicturesUnavailable as e:
+            tell(f"note: pictures left out: {e}")
+            return {}
+        for _, name in made:
+            tell(f"wrote {output.parent / name}")
+        out[r.path] = made
+    return out
+
+
+def write(reviews: list[Review], output, with_pictures: bool = True, tell=None,
+          extra: str = "") -> str:
+    """Write the Markdown report of ``reviews`` to ``output``, its pictures beside it: the one
+    writer of ``reviewer check --format markdown -o`` and of the walkthrough's export.
+
+    ``extra`` is Markdown inserted before the appendix (the walkthrough's what-if section).
+    Returns the text written."""
+    from pathlib import Path
+
+    from reviewer.atomic import write_text
+
+    output = Path(output)
+    output.parent.mkdir(parents=True, exist_ok=True)
+    pics = write_pictures(reviews, output, tell) if with_pictures else {}
+    text = render(reviews, pictures=pics)
+    if extra:
+        text = insert_before_appendix(text, extra)
+    write_text(output, text)
+    if tell:
+        tell(f"wrote {output}")
+    return text
+
+
+def insert_before_appendix(text: str, extra: str) -> str:
+    for anchor in ("\n## Appendix", "\n## Proposed changes"):
+        at = text.find(anchor)
+        if at >= 0:
+            return text[:at].rstrip("\n") + "\n\n" + extra + "\n" + text[at:]
+    return text.rstrip("\n") + "\n\n" + extra

@@ -8,18 +8,39 @@ from io import StringIO
 from reviewer.report import common
 from reviewer.review import AID_NOTE, CAUTION, Review
 
-STYLE = {"hazard": "bold red", "risk": "bold yellow", "advice": "cyan", "pass": "green",
-         "needs_data": "magenta", "open": "blue", "answered": "green", "not_applicable": "dim"}
+PIPED_WIDTH = 100
+"""Columns of the report when it does not go to a terminal (a file, a pipe)."""
+
+def _style(key: str) -> str:
+    """The colour of a meaning (without colour the console writes no styles at all)."""
+    return common.style(key, True)
+
+
+def terminal_width() -> int:
+    """The terminal's width when standard output is one; :data:`PIPED_WIDTH` otherwise."""
+    import shutil
+    import sys
+
+    try:
+        if sys.stdout.isatty():
+            return max(40, shutil.get_terminal_size((PIPED_WIDTH, 24)).columns)
+    except (AttributeError, ValueError, OSError):
+        pass
+    return PIPED_WIDTH
 
 
 def render(reviews: list[Review], color: bool | None = None, width: int | None = None,
            show_passed: bool = True) -> str:
-    """The report for one or more reviews as text (with ANSI colour when ``color``)."""
+    """The report for one or more reviews as text (with ANSI colour when ``color``).
+
+    ``width`` in columns; by default the terminal's width, or 100 when not a terminal. The marks
+    and colours are those of the walkthrough (:data:`reviewer.report.common.MARK`)."""
     from rich.console import Console
 
     buf = StringIO()
     console = Console(file=buf, force_terminal=bool(color), no_color=not color,
-                      width=width or 100, highlight=False, soft_wrap=False, markup=False)
+                      width=width or terminal_width(), highlight=False, soft_wrap=False,
+                      markup=False)
     for i, r in enumerate(reviews):
         if i:
             console.rule()
@@ -42,22 +63,28 @@ def _one(console, r: Review, show_passed: bool) -> None:
         head.append(f"  rev {d.revision}")
     head.append(f"\n{r.path}", style="dim")
     console.print(head)
+    from reviewer.report.placeholders import sentence, unchanged
+
+    left = unchanged(r.path)
+    if left:
+        console.print(Text(sentence(left), style="bold"))
     if r.beyond_elv:
         console.print(Panel(CAUTION, title="CAUTION: beyond extra-low voltage", style="bold red"))
     counts = r.counts()
     summary = Text()
-    for key in ("hazard", "risk", "advice", "needs_data", "open", "pass"):
+    for key in ("hazard", "risk", "advice", "needs_data", "open", "pass", "answered"):
         n = counts.get(key, 0)
-        summary.append(f"{common.LABEL[key]} {n}", style=STYLE[key] if n else "dim")
+        summary.append(f"{common.mark(key)} {common.LABEL[key]} {n}",
+                       style=_style(key) if n else "dim")
         summary.append("   ")
     console.print(summary)
     console.print()
 
     for f in r.failures:
         title = Text()
-        title.append(f"{common.label(f):<7}", style=STYLE[f.severity])
+        title.append(f"{common.mark(f.severity)} {common.label(f):<7}", style=_style(f.severity))
         title.append(f" {f.key}", style="bold")
-        title.append(f"  {f.title}")
+        title.append(f"  {common.title(f)}")
         if r.settled(f):
             title.append("  (settled by decision)", style="dim")
         console.print(title)
@@ -86,13 +113,14 @@ def _one(console, r: Review, show_passed: bool) -> None:
         if d is not None:
             st = r.state(f.key)
             grid.add_row("decision", common.decision(d, st))
-            if st == "reconfirm":
+            if st in ("reconfirm", "resolved"):
                 grid.add_row("decided on", common.decided_on(d))
                 grid.add_row("now", common.now_on(f))
         else:
             grid.add_row("decision", "none recorded")
         console.print(Padding(grid, (0, 0, 1, 2), expand=False))
 
+    _conflicts(console, r)
     _record(console, r)
     if r.disabled:
         console.print(Text("Rules switched off (not checked)", style="bold"))
@@ -101,19 +129,21 @@ def _one(console, r: Review, show_passed: bool) -> None:
         console.print()
     missing = r.by_outcome("needs_data")
     if missing:
-        console.print(Text("Needs data (not checked)", style="bold magenta"))
+        console.print(Text(f"{common.mark('needs_data')} Needs data (not checked)",
+                           style=_style("needs_data")))
         for f in missing:
             console.print(Text(f"  {f.key}: {f.title} — give {common.needs(f)}"))
         console.print()
     questions = r.by_outcome("open")
     if questions:
-        console.print(Text("Open questions (answer in [checklist])", style="bold blue"))
+        console.print(Text(f"{common.mark('open')} Open questions (answer with `reviewer answer` "
+                           "or in the design's [checklist])", style=_style("open")))
         for f in questions:
             console.print(Text(f"  {f.rule_id}: {f.question or f.title}"))
         console.print()
     passed = r.by_outcome("pass") + r.by_outcome("answered")
     if show_passed and passed:
-        console.print(Text(f"Passed ({len(passed)})", style="bold green"))
+        console.print(Text(f"{common.mark('pass')} Passed ({len(passed)})", style=_style("pass")))
         table = Table(show_header=True, box=None, padding=(0, 2), header_style="dim")
         for col in ("check", "computed", "limit", "margin"):
             table.add_column(col, overflow="fold")
@@ -122,6 +152,21 @@ def _one(console, r: Review, show_passed: bool) -> None:
         console.print(Padding(table, (0, 0, 0, 2), expand=False))
         console.print()
     console.print(Text(AID_NOTE, style="dim"))
+
+
+def _conflicts(console, r: Review) -> None:
+    from rich.text import Text
+
+    from reviewer.report.conflicts import conflicts
+
+    found = conflicts(r)
+    if not found:
+        return
+    console.print(Text(f"{common.mark('conflict')} Answers the design file contradicts "
+                       "(not taken as passes)", style=_style("conflict")))
+    for c in found:
+        console.print(Text(f"  {c.question}: {c.text()}"))
+    console.print()
 
 
 def _record(console, r: Review) -> None:

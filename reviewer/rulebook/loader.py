@@ -96,6 +96,9 @@ class Rulebook:
     """For each rule id, what happened to it, in order ("defined in X", "limit changed by Y")."""
 
     def get(self, rule_id: str) -> Rule | None:
+        from reviewer.aliases import current_id
+
+        rule_id = current_id(rule_id)
         return next((r for r in self.rules if r.id == rule_id), None)
 
     def disabled_rule(self, rule_id: str) -> Disabled | None:
@@ -361,6 +364,7 @@ def _apply(book: Rulebook, reads: list[_Read], problems: list[Problem]) -> None:
                 book.disabled.append(Disabled(rule.id, rule.title, "enabled = false in its file",
                                               shown))
         for i, ov in enumerate(f.parsed.override):
+            ov = _current(ov)  # an old (renamed) rule id still names its rule
             loc = ("override", str(i))
             line = line_of(f.lines, loc)
             target = rules.get(ov.id)
@@ -391,6 +395,7 @@ def _apply(book: Rulebook, reads: list[_Read], problems: list[Problem]) -> None:
             book.history[ov.id].append(f"{', '.join(keys)} changed by {shown}"
                                        + (f" ({ov.note})" if ov.note else ""))
         for i, d in enumerate(f.parsed.disable):
+            d = _current(d)
             loc = ("disable", str(i))
             if d.id not in rules:
                 gone = book.disabled_rule(d.id)
@@ -422,6 +427,14 @@ def _apply(book: Rulebook, reads: list[_Read], problems: list[Problem]) -> None:
         book.rules.append(rule)
         book.compiled.extend(compiled)
     book.rules.sort(key=lambda r: list(rules).index(r.id))
+
+
+def _current(entry: Any) -> Any:
+    """An override or disable entry with a renamed rule's old id changed to the current one."""
+    from reviewer.aliases import current_id
+
+    new = current_id(entry.id)
+    return entry if new == entry.id else entry.model_copy(update={"id": new})
 
 
 def _override_problems(rule: Rule, ov: Any) -> list[tuple[str, str]]:

@@ -21,6 +21,7 @@ from textual.worker import get_current_worker
 from reviewer.errors import InputError
 from reviewer.record import NEEDS_REASON, DecisionError
 from reviewer.tui import pictures, views
+from reviewer.tui.views import finding_title
 from reviewer.tui.dialogs import ChoiceDialog, KeysScreen, PathDialog, PickDialog, WhatIfDialog
 from reviewer.tui.keys import ACTIONS
 from reviewer.tui.session import Snapshot, Walk
@@ -31,6 +32,18 @@ DECISIONS = [("c", "will_change", "will change the design"),
              ("x", "not_applicable", "does not apply here (say why)"),
              ("u", "undecided", "undecided")]
 ANSWERS = [("y", "yes", "yes"), ("n", "no", "no"), ("x", "not_applicable", "does not apply (say why)")]
+
+
+SAID = {"'accepted'": "accepting", "'not_applicable'": "saying it does not apply",
+        "'will_change'": "will change", "'undecided'": "undecided"}
+"""The record's names of decisions as the walkthrough says them."""
+
+
+def plain_words(message: str) -> str:
+    """A record message in the walkthrough's words (no snake_case names of values)."""
+    for name, words in SAID.items():
+        message = message.replace(name, words)
+    return message[:1].upper() + message[1:]
 
 
 class WalkApp(App[int]):
@@ -47,6 +60,8 @@ class WalkApp(App[int]):
         self.selected: str | None = None
         self.busy = False
         self._theme_name = theme
+        self._pending_whatif = None
+        self.last_whatif = ""
 
     # layout ------------------------------------------------------------------------------
     def compose(self) -> ComposeResult:
@@ -95,6 +110,8 @@ class WalkApp(App[int]):
             self.review_again()  # the record changed while this review ran
             return
         self.busy = False
+        if self._pending_whatif is not None:
+            self._whatif_done()
         if first and self.selected is None:  # start on the first item that needs a decision
             self.selected = self.walk.next_undecided(None)
         self.show_all()
@@ -128,7 +145,11 @@ class WalkApp(App[int]):
         bad = not walk.snapshot.ok and walk.snapshot.problems
         problems = self.query_one("#problems", Static)
         problems.display = bool(bad)
-        self.query_one("#body").display = not bad
+        body = self.query_one("#body")
+        reshown = not bad and not body.display
+        body.display = not bad
+        if reshown:  # widths are known only after the next layout: fit everything then
+            self.call_after_refresh(self.relayout)
         if bad:
             problems.update(views.problems(list(walk.snapshot.problems),
                                            "The design file did not load:"))
@@ -139,21 +160,30 @@ class WalkApp(App[int]):
 
     def show_selected(self) -> None:
         self.query_one("#detail", Detail).show(views.detail(self.walk, self.walk.item(self.selected)))
-        self.query_one("#changes-detail", Detail).show(views.proposals(self.walk))
+        self.query_one("#changes-detail", Detail).show(views.proposals(self.walk, self.last_whatif))
 
     def show_pictures(self) -> None:
         r = self.walk.review
         if r is None:
             return
-        pane = self.query_one("#tabs").size.width
+        pane = self.query_one("#tabs").size.width - 3  # room for the scroll bar
         self.query_one("#timing-picture", Picture).show(
-            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - 17))))
+            "\n".join(pictures.timing_picture(r.sheet, max(20, pane - pictures.LEAD),
+                                              r.findings)))
         self.query_one("#spectrum-picture", Picture).show(
-            "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 23))))
+            "\n".join(pictures.spectrum_picture(r.sheet, max(20, pane - 10))))
 
     def on_resize(self) -> None:
         if self.walk.snapshot.ok:
-            self.call_after_refresh(self.show_all)
+            self.call_after_refresh(self.relayout)
+
+    def relayout(self) -> None:
+        """Fit the list and the pictures to the widths they have now (after a resize, or when
+        the body is shown again once a broken design file has been fixed)."""
+        if not self.walk.snapshot.ok or not self.query_one("#body").display:
+            return
+        self.selected = self.query_one(FindingList).show(self.walk, self.selected)
+        self.show_pictures()
 
     @on(OptionList.OptionHighlighted, "#findings")
     def _highlighted(self, event: OptionList.OptionHighlighted) -> None:
@@ -190,7 +220,7 @@ class WalkApp(App[int]):
             self._answer(item)
         else:
             d = self.walk.decision(item.key)
-            self._decision(item, d.kind if d else "will_change", focus_note=False)
+            self._decision(item, d.kind if d else None, focus_note=False)
 
     def action_quick(self, kind: str) -> None:
         item = self._item()
@@ -203,40 +233,54 @@ class WalkApp(App[int]):
             self._decision(item, kind, focus_note=True)
             return
         d = self.walk.decision(item.key)
-        self._record(lambda: self.walk.decide(item.key, kind, d.reason if d else ""))
+        self._record(lambda: self.walk.decide(item.key, kind, d.reason if d else "",
+                                              d.accepted_by if d else ""))
 
     def _record(self, do) -> str | None:
         """Run a record change; an error message for a dialog, or None after saving."""
         try:
             do()
-        except (DecisionError, OSError) as e:
-            return str(e)
+        except DecisionError as e:
+            return plain_words(str(e))
+        except OSError as e:
+            return f"the record could not be saved: {e}"
         self._after_record()
         return None
 
-    def _decision(self, item, kind: str, focus_note: bool) -> None:
+    def _decision(self, item, kind: str | None, focus_note: bool) -> None:
         d = self.walk.decision(item.key)
 
-        def apply(value: str, note: str) -> str | None:
-            return self._record(lambda: self.walk.decide(item.key, value, note))
+        def apply(value: str, note: str, who: str) -> str | None:
+            return self._record(lambda: self.walk.decide(item.key, value, note, who))
 
         self.push_screen(ChoiceDialog(
-            f"Decision on {item.key}", item.finding.title, DECISIONS, apply, preset=kind,
-            note=d.reason if d else "", note_label="Why (needed to accept or to say it does not apply)",
-            focus_note=focus_note))
+            f"Decision on {item.key}", finding_title(item.finding), DECISIONS, apply,
+            preset=kind, note=d.reason if d else "",
+            note_label="Why (needed to accept or to say it does not apply)",
+            focus_note=focus_note, who_for=lambda v: self.walk.needs_acceptor(item.key, v),
+            who=d.accepted_by if d else ""))
 
     def _answer(self, item) -> None:
         current = self.walk.answer_of(item)
+        question = item.finding.rule_id
 
-        def apply(value: str, note: str) -> str | None:
-            error = self._record(lambda: self.walk.answer(item.finding.rule_id, value, note))
+        def apply(value: str, note: str, _who: str) -> str | None:
+            error = self._record(lambda: self.walk.answer(question, value, note))
             if error is None:
                 self.review_again()
+                clash = self.walk.answer_conflicts(question, value)
+                if clash:
+                    self.notify("\n".join(c.text() for c in clash),
+                                title="Answer contradicts the design file", severity="warning")
             return error
 
+        def warn(value: str) -> str:
+            return "\n".join("≠ " + c.text() for c in self.walk.answer_conflicts(question, value))
+
         self.push_screen(ChoiceDialog(
-            f"Answer {item.finding.rule_id}", item.finding.question, ANSWERS, apply,
-            preset=current[0] if current else "yes", note=current[1] if current else ""))
+            f"Answer {question}", item.finding.question, ANSWERS, apply,
+            preset=current[0] if current else None, note=current[1] if current else "",
+            warn=warn))
 
     def action_note(self) -> None:
         item = self._item()
@@ -247,11 +291,11 @@ class WalkApp(App[int]):
             return
         d = self.walk.decision(item.key)
 
-        def apply(_: str, note: str) -> str | None:
+        def apply(_: str, note: str, _who: str) -> str | None:
             return self._record(lambda: self.walk.note(item.key, note))
 
-        self.push_screen(ChoiceDialog(f"Note on {item.key}", item.finding.title, [], apply,
-                                      note=d.reason if d else ""))
+        self.push_screen(ChoiceDialog(f"Note on {item.key}", finding_title(item.finding), [],
+                                      apply, note=d.reason if d else ""))
 
     def action_whatif(self) -> None:
         if not self.walk.snapshot.ok:
@@ -267,17 +311,32 @@ class WalkApp(App[int]):
 
                 value = num(f.pass_value, f.pass_unit)
 
+        key = item.key if item is not None else None
+
         def apply(field_path: str, value_text: str, note: str) -> str | None:
             problems = self.walk.check_proposal(field_path, value_text)
             if problems:
                 return "\n".join(f"{p.path or field_path}: {p.message}" for p in problems)
+            before = self.walk.review
             error = self._record(lambda: self.walk.propose(field_path, value_text, note))
             if error is None:
+                self._pending_whatif = (key, field_path, value_text, before)
                 self.review_again()
             return error
 
         self.push_screen(WhatIfDialog(self.walk.design_fields(), self.walk.field_value, apply,
-                                      field, value))
+                                      field, value, hint=self.walk.field_hint))
+
+    def _whatif_done(self) -> None:
+        """Say plainly what the last what-if change did (or that it had no effect)."""
+        pending, self._pending_whatif = self._pending_whatif, None
+        if pending is None or self.walk.review is None:
+            return
+        key, field_path, value_text, before = pending
+        text = views.whatif_result(before, self.walk.review, key, field_path, value_text)
+        self.last_whatif = text
+        self.notify(text, title="What-if", timeout=12)
+        self.show_selected()
 
     def action_withdraw(self) -> None:
         props = self.walk.record.proposals
@@ -302,6 +361,11 @@ class WalkApp(App[int]):
         self.show_all()
 
     def action_export(self) -> None:
+        if not self.walk.snapshot.ok:  # refuse early: there is nothing to report
+            self.notify("The design did not load, so there is no report to export: fix the "
+                        "file first.", severity="warning")
+            return
+
         def apply(target: str) -> str | None:
             try:
                 path = self.walk.export(Path(target))
@@ -309,7 +373,7 @@ class WalkApp(App[int]):
                 return "\n".join(str(p) for p in e.problems)
             except OSError as e:
                 return f"cannot write {target}: {e}"
-            self.notify(f"Wrote the Markdown report to {path}")
+            self.notify(f"Wrote the Markdown report (pictures beside it) to {path}")
             return None
 
         self.push_screen(PathDialog("Export the Markdown report to", str(self.walk.default_export()),

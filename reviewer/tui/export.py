@@ -35,7 +35,9 @@ def whatif_section(filed: Review, current: Review | None) -> str:
                 "computed with them.", ""]
     elif moved:
         out += ["| Check | As filed | With the changes |", "|---|---|---|"]
-        out += [f"| `{k}` | {a} | {b} |" for k, a, b in moved]
+        from reviewer.report.common import outcome_word
+
+        out += [f"| `{k}` | {outcome_word(a)} | {outcome_word(b)} |" for k, a, b in moved]
         out.append("")
     else:
         out += ["No check changes its outcome.", ""]
@@ -48,10 +50,4 @@ def markdown_report(filed: Review, current: Review | None = None) -> str:
 
     text = markdown.render([filed])
     extra = whatif_section(filed, current)
-    if not extra:
-        return text
-    for anchor in ("\n## Appendix", "\n## Proposed changes"):
-        at = text.find(anchor)
-        if at >= 0:
-            return text[:at].rstrip("\n") + "\n\n" + extra + "\n" + text[at:]
-    return text.rstrip("\n") + "\n\n" + extra
+    return markdown.insert_before_appendix(text, extra) if extra else text

@@ -25,7 +25,7 @@ ACTIONS: tuple[Action, ...] = (
            shown="Enter / d"),
     Action("c", "quick('will_change')", "Will change", "Decide: the design will be changed",
            footer=False),
-    Action("a", "quick('accepted')", "Accept", "Decide: accept the finding as it stands (asks why)",
+    Action("a", "quick('accepted')", "Accept", "Decide: accept as it stands (asks why, and who for a hazard)",
            footer=False),
     Action("x", "quick('not_applicable')", "Does not apply",
            "Decide: the finding does not apply to this design (asks why)", footer=False),
@@ -51,7 +51,10 @@ ACTIONS: tuple[Action, ...] = (
 DIALOG_KEYS = (
     ("Decision dialog", "c / a / x / u", "will change · accept · does not apply · undecided; "
      "then type the note and press Enter"),
+    ("Decision dialog", "Enter", "nothing is chosen until you choose; accepting a hazard then "
+     "asks who accepts it"),
     ("Answer dialog", "y / n / x", "yes · no · does not apply; then the note and Enter"),
+    ("What-if dialog", "Enter", "field → value → why → try it"),
     ("Any dialog", "Tab", "move between the choice and the note"),
     ("Any dialog", "Escape", "close without saving"),
     ("Lists", "↑ ↓ PgUp PgDn Home End", "move through the findings"),

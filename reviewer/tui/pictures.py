@@ -13,7 +13,8 @@ from dataclasses import dataclass
 from typing import Any
 
 from reviewer.quantities import Sheet
-from reviewer.report.timing import OTHER, Edge, edge, typical
+from reviewer.report.timing import (OTHER, SHOOT_THROUGH, Edge, corner_text, edge, typical,
+                                     worst_run)
 from reviewer.units import render
 
 ON, OFF, EDGE, OVERLAP = "█", "▁", "▒", "▓"
@@ -46,18 +47,49 @@ def _axis(t0: float, t1: float, width: int, lead: str) -> list[str]:
     return [lead + "".join(marks).replace(" ", "─"), pad + "".join(labels)]
 
 
-def timing_lines(e: Edge, width: int = 60) -> list[str]:
-    """Lines of a timing diagram for one edge; ``width`` is the plot's width in columns."""
+_DRAWN = set(ON + OFF + EDGE + OVERLAP + "┴─├┤┃▌┗")
+
+
+def wrap_text(lines: list[str], total: int) -> list[str]:
+    """Wrap the sentences among ``lines`` to ``total`` columns; drawn rows are kept as they are
+    (they are made to fit)."""
+    import textwrap
+
+    out: list[str] = []
+    for line in lines:
+        if len(line) <= total or any(ch in _DRAWN for ch in line):
+            out.append(line)
+            continue
+        indent = len(line) - len(line.lstrip(" "))
+        out += textwrap.wrap(line, max(total, 20), subsequent_indent=" " * (indent + 2),
+                             break_on_hyphens=False) or [""]
+    return out
+
+
+LEAD = 14
+"""Columns of a timing diagram's row labels."""
+
+
+def _t_end(e: Edge) -> float:
+    dead = e.dead or 0.0
+    if e.has_switching:
+        ends = [dead, e.off_total, dead + e.td_on + e.rise]
+    else:
+        ends = [dead]
+    return max(ends) * 1.2 if max(ends) > 0 else 200e-9
+
+
+def timing_lines(e: Edge, width: int = 60, t_end: float | None = None,
+                 heading: str | None = None) -> list[str]:
+    """Lines of a timing diagram for one edge; ``width`` is the plot's width in columns and
+    ``t_end`` the end of its time axis [s] (to draw two corners on one scale)."""
     width = max(width, 20)
     dead = e.dead or 0.0
     lead_w = 14
     if e.has_switching:
         on_start = dead + e.td_on
         on_full = on_start + e.rise
-        ends = [dead, e.off_total, on_full]
-    else:
-        ends = [dead]
-    t_end = max(ends) * 1.2 if max(ends) > 0 else 200e-9
+    t_end = t_end or _t_end(e)
     t0, t1 = -0.12 * t_end, t_end
     span = t1 - t0
 
@@ -74,8 +106,7 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
         return "".join(row)
 
     inc, out = e.incoming, e.outgoing
-    title = f"{inc} side turns on after the {out} side turns off"
-    lines = [title, ""]
+    lines = [heading or f"outgoing {out} side off, then incoming {inc} side on", ""]
     lines.append(f"{(out + ' gate cmd'):<{lead_w}}" + trace([(t0, 0.0, ON)]))
     if e.has_switching:
         lines.append(f"{(out + ' channel'):<{lead_w}}" +
@@ -107,6 +138,7 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
             gap = on_start - e.off_total
             summary += f" · both on: never (margin {render(gap, 's')})"
     lines += _axis(t0, t1, width, " " * lead_w)
+    lines.append(" " * lead_w + f"from the {out} command; full width {render(span, 's')}")
     lines.append(summary)
     if e.has_switching:
         lines.append(f"{out}: turn-off delay {render(e.td_off, 's')}, off after "
@@ -120,15 +152,33 @@ def timing_lines(e: Edge, width: int = 60) -> list[str]:
     return lines
 
 
-def timing_picture(sheet: Sheet, width: int = 60) -> list[str]:
-    """Both edges of a leg. Both legs of the bridge use the same parts and timing."""
-    lines = [f"Key: {ON} on   {EDGE} switching (estimated)   {OFF} off",
-             f"     {OVERLAP} both switches of the leg on (shoot-through)", ""]
-    for incoming in ("low", "high"):
-        lines += timing_lines(edge(sheet, incoming), width)
+def timing_picture(sheet: Sheet, width: int = 60, findings=()) -> list[str]:
+    """Both edges of a leg, each at the corner its shoot-through finding was judged at, with
+    the typical values drawn below it on the same time scale. Both legs of the bridge use the
+    same parts and timing."""
+    lines = [f"Key: {ON} on  {EDGE} switching (estimated)  {OFF} off",
+             f"     {OVERLAP} both switches on (shoot-through)", ""]
+    for incoming in ("high", "low"):
+        run = worst_run(sheet, incoming, findings)
+        worst = edge(sheet, incoming, run)
+        typ = edge(sheet, incoming)
+        out = OTHER[incoming]
+        name = f"{SHOOT_THROUGH}[{incoming}]"
+        lines.append(f"━━ {incoming.upper()} SIDE TURNS ON: outgoing {out} side, incoming "
+                     f"{incoming} side ({name})")
+        if run is None:
+            lines += timing_lines(typ, width, heading="at typical values (no toleranced input "
+                                  "moves this edge)")
+        else:
+            t_end = max(_t_end(worst), _t_end(typ))
+            lines += timing_lines(worst, width, t_end, heading="AT THE WORST CORNER, as the "
+                                  f"finding is judged: {corner_text(sheet, run)}")
+            lines.append("")
+            lines += timing_lines(typ, width, t_end, heading="at typical values, on the same "
+                                  "time scale")
         lines.append("")
     lines.append("Both legs use the same parts and dead time: this diagram holds for each leg.")
-    return lines
+    return wrap_text(lines, LEAD + max(width, 20))
 
 
 # spectrum ----------------------------------------------------------------------------------
@@ -260,7 +310,7 @@ def spectrum_lines(s: Spectrum, width: int = 60, height: int = 8, floor_db: floa
     lines.append(" " * lead + "─" * width)
     lines.append(" " * lead + "".join(ticks))
     lines.append("")
-    lines += thd_lines(s.thd_before, s.thd_after, s.target, width)
+    lines += thd_lines(s.thd_before, s.thd_after, s.target, max(10, width - 12))
     return lines
 
 
@@ -290,6 +340,10 @@ def thd_lines(before: float | None, after: float | None, target: float | None,
 
 
 def spectrum_picture(sheet: Sheet, width: int = 60) -> list[str]:
+    return wrap_text(_spectrum_picture(sheet, width), 8 + max(width, 20))
+
+
+def _spectrum_picture(sheet: Sheet, width: int = 60) -> list[str]:
     s = spectrum_data(sheet)
     if s is None:
         target = typical(sheet, "design.output.thd_target")

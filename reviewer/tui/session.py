@@ -251,13 +251,19 @@ class Walk:
         items = [Item(k, cur.get(k), filed.get(k)) for k in keys]
         shown = [i for i in items if self.show_passed
                  or (i.current and i.current.outcome in NEEDS_ATTENTION)
-                 or (i.filed and i.filed.outcome in NEEDS_ATTENTION)]
+                 or (i.filed and i.filed.outcome in NEEDS_ATTENTION)
+                 or self.conflicts_of(i)]
+        def order(i: Item) -> tuple:  # an answer the design contradicts ranks as a failure
+            k = i.sort_key()
+            return (_GROUP["fail"], *k[1:]) if self.conflicts_of(i) else k
+
         areas: dict[str, list[Item]] = {}
-        for i in sorted(shown, key=Item.sort_key):
+        for i in sorted(shown, key=order):
             areas.setdefault(i.area, []).append(i)
+
         def rank(area: str) -> tuple:
-            worst = areas[area][0].sort_key()[:2]  # the area's worst item, then how many such
-            return (worst, -sum(1 for i in areas[area] if i.sort_key()[:2] == worst), area)
+            worst = order(areas[area][0])[:2]  # the area's worst item, then how many such
+            return (worst, -sum(1 for i in areas[area] if order(i)[:2] == worst), area)
 
         order = sorted(areas, key=rank)
         return [i for a in order for i in areas[a]]
@@ -281,7 +287,7 @@ class Walk:
 
     def needs_decision(self, item: Item) -> bool:
         """A failing finding with no decision (or one to re-confirm), or an open question."""
-        if item.outcome == "open":
+        if item.outcome == "open" or self.conflicts_of(item):
             return True
         failing = item.outcome == "fail" or (item.filed is not None and item.filed.outcome == "fail")
         if not failing:
@@ -310,8 +316,8 @@ class Walk:
             return {}
         c = r.counts()
         items = self.items()
-        failing = [i for i in items if i.outcome == "fail"
-                   or (i.filed is not None and i.filed.outcome == "fail")]
+        # one basis: the review shown (as filed, or with the what-if changes applied)
+        failing = [i for i in items if i.outcome == "fail"]
         decided = [i for i in failing if not self.needs_decision(i)]
         return {
             "hazard": c.get("hazard", 0), "risk": c.get("risk", 0), "advice": c.get("advice", 0),
@@ -319,7 +325,8 @@ class Walk:
             "passed": c.get("pass", 0) + c.get("answered", 0),
             "failing": len(failing), "decided": len(decided),
             "reconfirm": sum(1 for i in failing if self.decision_state(i) == "reconfirm"),
-            "proposals": len(self.record.proposals),
+            "proposals": len(self.record.proposals) if s_applied(self.snapshot) else 0,
+            "conflicts": len(conflicts(r)),
             "orphans": len(r.orphans),
         }
 
@@ -332,12 +339,43 @@ class Walk:
                 return f
         raise KeyError(key)
 
-    def decide(self, key: str, kind: str, reason: str = "") -> None:
-        """Record a decision on the finding as filed (the numbers it is made on), and save."""
+    def needs_acceptor(self, key: str, kind: str) -> bool:
+        """True when deciding ``kind`` on ``key`` also asks who accepts it: accepting a hazard."""
+        if kind != "accepted":
+            return False
+        try:
+            return self._finding_for_record(key).severity == "hazard"
+        except KeyError:
+            return False
+
+    def decide(self, key: str, kind: str, reason: str = "", accepted_by: str = "") -> None:
+        """Record a decision on the finding as filed (the numbers it is made on), and save.
+
+        Accepting a hazard needs ``accepted_by`` (who accepts it) as well as the reason."""
         record = rec.decide(self.record, self._finding_for_record(key), kind, reason,
                             self.reviewer)
+        if self.needs_acceptor(key, kind) and not accepted_by.strip():
+            raise rec.DecisionError("accepting a hazard needs the name of who accepts it, "
+                                    "as well as why")
+        if kind == "accepted" and accepted_by.strip():
+            d = replace(record.decisions[key], accepted_by=accepted_by.strip())
+            record = replace(record, decisions={**record.decisions, key: d})
         self._save(record)
         self.snapshot = _restamp(self.snapshot, record)
+
+    def answer_conflicts(self, question: str, answer: str) -> list:
+        """What the design file says against answering ``answer`` to ``question``."""
+        from reviewer.report.conflicts import answer_conflicts
+
+        r = self.snapshot.filed
+        return answer_conflicts(r.sheet if r else None, question, answer)
+
+    def conflicts_of(self, item: Item) -> list:
+        """The contradictions of the answer given to the question ``item`` (none if open)."""
+        if not item.is_question:
+            return []
+        ans = self.answer_of(item)
+        return [] if ans is None else self.answer_conflicts(item.finding.rule_id, ans[0])
 
     def note(self, key: str, text: str) -> None:
         self._save(rec.note(self.record, key, text, self.reviewer))
@@ -388,6 +426,24 @@ class Walk:
             return num(q.typ, q.unit)
         return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
 
+    def field_hint(self, field_path: str) -> str:
+        """What a design field means and holds now, for the what-if dialog:
+        'Dead time at every edge (0 is legal and dangerous) · now 0 s'."""
+        r = self.snapshot.filed
+        if r is None or not field_path:
+            return ""
+        q = r.sheet.get(f"design.{field_path}")
+        meaning = field_description(field_path)
+        if q is None:
+            if f"design.{field_path}" in r.sheet.missing or meaning:
+                return (meaning + " · " if meaning else "") + "not given in the design file"
+            return "not a design field of this design: → accepts a suggestion"
+        p = self.record.proposals.get(field_path)
+        text = (meaning + " · " if meaning else "") + f"now {_shown(q)}"
+        if p is not None:
+            text += f" as filed, {p.value} proposed"
+        return text
+
     def design_fields(self) -> list[str]:
         """Every design field a what-if may change (from the sheet), for completion."""
         r = self.snapshot.filed
@@ -397,25 +453,78 @@ class Walk:
                  if n.startswith("design.")}
         return sorted(n for n in names if not n.startswith(("design.", "checklist.")))
 
-    def export(self, target: str | Path) -> Path:
-        """Write the Markdown report (the design as filed, and what the proposals would change);
-        never over the design file or its record."""
-        from reviewer.tui.export import markdown_report
+    def export(self, target: str | Path, with_pictures: bool = True) -> Path:
+        """Write the Markdown report with the writer of ``reviewer check -o`` (pictures beside
+        it), plus what the proposals would change; never over the design file or its record."""
+        from reviewer.report import markdown
+        from reviewer.tui.export import whatif_section
 
-        t = Path(target)
+        t = Path(target).expanduser()
         if t.resolve() == self.path.resolve() or t.resolve() == self.record_file.resolve():
             raise InputError([Problem(str(t), None, "", "is the design or its record; "
                                       "choose another file for the report")])
+        if t.suffix.lower() not in (".md", ".markdown"):
+            raise InputError([Problem(str(t), None, "", "a Markdown report's name ends in .md")])
         s = self.snapshot
         if not s.ok:
             raise InputError(list(s.problems))
-        from reviewer.atomic import write_text
-
-        write_text(t, markdown_report(s.filed, s.current))
+        markdown.write([s.filed], t, with_pictures=with_pictures,
+                       extra=whatif_section(s.filed, s.current))
         return t
 
     def default_export(self) -> Path:
-        return self.path.with_name(self.path.stem + ".review.md")
+        """A ``reviews/`` folder beside the design; for a bundled example (whose folder belongs
+        to the program), a ``reviews/`` folder in the working directory instead."""
+        from reviewer.paths import examples_dir
+
+        here = self.path.resolve().parent
+        packaged = {examples_dir().resolve(), Path(__file__).resolve().parents[1]}
+        inside = any(here == p or p in here.parents for p in packaged)
+        base = Path.cwd() if inside else self.path.parent
+        return base / "reviews" / (self.path.stem + ".review.md")
+
+
+def field_description(field_path: str) -> str:
+    """The design format's description of a field ('' when it has none)."""
+    import typing
+
+    from reviewer.design import model
+
+    cls: object = model.Design
+    parts = field_path.split(".")
+    for i, name in enumerate(parts):
+        fields = getattr(cls, "model_fields", {})
+        f = fields.get(name)
+        if f is None:
+            return ""
+        if i == len(parts) - 1:
+            return (f.description or "").rstrip(".")
+        ann = f.annotation
+        nxt = next((a for a in (typing.get_args(ann) or (ann,))
+                    if isinstance(a, type) and issubclass(a, model.Part)), None)
+        if nxt is None:
+            return ""
+        cls = nxt
+    return ""
+
+
+def _shown(q) -> str:
+    if q.kind == "number":
+        from reviewer.report.common import num
+
+        return num(q.typ, q.unit)
+    return str(q.typ).lower() if isinstance(q.typ, bool) else str(q.typ)
+
+
+def s_applied(snap: Snapshot) -> bool:
+    """True when the review shown has the what-if changes applied (they validated)."""
+    return snap.current is not None and snap.current is not snap.filed
+
+
+def conflicts(review: Review) -> list:
+    from reviewer.report.conflicts import conflicts as found
+
+    return found(review)
 
 
 def _restamp(snap: Snapshot, record: rec.Record) -> Snapshot:

@@ -20,18 +20,33 @@ class FindingList(OptionList):
     """
 
     _keys: list[str] = []
+    _drawn_width: int = 0
+
+    def on_resize(self, event) -> None:
+        """Redraw at the new width (the entries are fitted to it), once the size is known."""
+        width = self.scrollable_content_region.width
+        if width and width != self._drawn_width and hasattr(self.app, "relayout"):
+            self.app.call_later(self.app.relayout)
 
     def show(self, walk: Walk, keep: str | None) -> str | None:
         """Rebuild from ``walk``; keep ``keep`` highlighted if still listed. Returns the key."""
         items = walk.items()
-        width = max(24, (self.scrollable_content_region.width or 40) - 3)
+        self._drawn_width = self.scrollable_content_region.width
+        spare = 1 if self.show_vertical_scrollbar else 3  # a scroll bar may yet appear
+        width = max(24, (self.scrollable_content_region.width or 40) - spare)
         by_area: dict[str, list] = {}
         for i in items:
             by_area.setdefault(i.area, []).append(i)
         options: list[Option] = []
+        room = max(8, width - 13)
+        shown = [views.fit_item(i, room) for i in items]
+        alike = {n for n in shown if shown.count(n) > 1}
         for area, group in by_area.items():
-            options.append(Option(views.area_header(area, group), id=f"area:{area}", disabled=True))
-            options += [Option(views.item_prompt(walk, i, width), id=i.key) for i in group]
+            options.append(Option(views.area_header(area, group, walk), id=f"area:{area}",
+                                  disabled=True))
+            options += [Option(views.item_prompt(
+                walk, i, width, two_lines=views.fit_item(i, room) in alike),
+                id=i.key) for i in group]
         if not items:
             options.append(Option(Text("Nothing to review here: no finding fails, asks or needs "
                                        "data. Press p to list the passed checks."),
@@ -49,6 +64,16 @@ class FindingList(OptionList):
             self.highlighted = self.get_option_index(target)
         return target
 
+    async def _on_click(self, event) -> None:
+        """One click selects an entry; only a double click (or Enter) opens the decision."""
+        event.prevent_default()  # the option list's own handler would open it on one click
+        clicked = event.style.meta.get("option")
+        if clicked is None or self._options[clicked].disabled:
+            return
+        self.highlighted = clicked
+        if event.chain >= 2:
+            self.action_select()
+
     @property
     def key(self) -> str | None:
         if self.highlighted is None:
@@ -61,7 +86,15 @@ class FindingList(OptionList):
 
 
 class Picture(VerticalScroll):
-    """A scrollable text picture that is never wrapped."""
+    """A scrollable text picture that is never wrapped; drawn again when its width changes."""
+
+    _drawn_width: int = 0
+
+    def on_resize(self, event) -> None:
+        if self.size.width and self.size.width != self._drawn_width \
+                and hasattr(self.app, "relayout"):
+            self._drawn_width = self.size.width
+            self.app.call_later(self.app.relayout)
 
     DEFAULT_CSS = """
     Picture { height: 1fr; }

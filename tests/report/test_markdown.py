@@ -86,7 +86,7 @@ def hand_review(series=None, timing=True) -> Review:
                 question="Are the output terminals guarded?", outcome="answered"),
         finding("thermal.junction", "high", title="Junction temperature", outcome="needs_data",
                 needs=("switch.high.rth_jc",)),
-        finding("band.bus-elv", title="Bus within extra-low voltage", severity="hazard",
+        finding("voltage-class.bus-elv", title="Bus within extra-low voltage", severity="hazard",
                 outcome="pass", unit="V", relation="≤", value=24.0, limit=120.0, margin=96.0,
                 basis="standard"),
         finding("stress.vds-rating", "high", title="Drain-source peak within the rating",
@@ -177,8 +177,11 @@ def test_pictures_from_the_sheet(tmp_path):
     # side conducts until 180 ns: the published 50 ns overlap is marked on that commutation
     assert "overlap 50 ns" in timing and "no overlap" in timing and "dead 100 ns" in timing
     spectrum = svg_text(tmp_path / "r.spectrum.svg")
-    assert "distortion target 5 % of the fundamental" in spectrum
-    assert "bridge (before the filter)" in spectrum and "load (after the filter)" in spectrum
+    # the target is a total, stated in words, not drawn as one component's level
+    assert "target: total THD at the load at most 5 %" in spectrum
+    assert spectrum.count("at the bridge, before the filter") == 1
+    assert spectrum.count("at the load, after the filter") == 1
+    assert "after" not in spectrum.replace("at the load, after the filter", "")
     # data absent: no picture, and no error
     assert pictures.write_pictures(hand_review(None, timing=False), tmp_path, "none") == []
     # switching times absent, dead time known: gate commands only
@@ -223,3 +226,23 @@ def test_renders_as_commonmark_with_tables():
     assert tables == html.count("<table>") > 5
     assert not re.search(r"<p>\|", html)
     assert html.count("<h3>") == 4  # one per failing finding
+
+
+def test_spectrum_in_db_of_each_sides_own_fundamental():
+    """A square wave's b_n = 4/(πn) for odd n (Kreyszig, Advanced Engineering Mathematics, 10th
+    ed., §11.1, Example 1): the third harmonic is 20·log10(1/3) = −9.54 dB of the fundamental
+    and the fifth −13.98 dB, whatever the scale; a transformer's ratio (×9.6 here) changes
+    nothing once each side is referred to its own fundamental."""
+    import math
+
+    from reviewer.report.pictures import db_of_fundamental
+
+    freq = [50.0, 150.0, 250.0]
+    bridge = [4 / (math.pi * n) for n in (1, 3, 5)]
+    load = [9.6 * b for b in bridge]
+    for mag in (bridge, load):
+        db = db_of_fundamental(freq, mag, 50.0)
+        assert db[0] == pytest.approx(0.0)
+        assert db[1] == pytest.approx(-9.542, abs=1e-3)
+        assert db[2] == pytest.approx(-13.979, abs=1e-3)
+    assert db_of_fundamental(freq, [0.0, 1.0, 1.0], 50.0) is None  # no fundamental: no picture

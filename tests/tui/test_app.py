@@ -10,6 +10,7 @@ import pytest
 
 from reviewer import record as rec
 from reviewer.tui.app import WalkApp
+from reviewer.tui.dialogs import ChoiceDialog
 from reviewer.tui.keys import ACTIONS
 from reviewer.tui.session import Walk
 
@@ -60,6 +61,12 @@ async def test_full_walk(naive, tmp_path):
         await type_text(pilot, "bench only")
         await pilot.press("enter")
         await pilot.pause()
+        if walk.needs_acceptor(second, "accepted"):  # a hazard: who accepts it, as well as why
+            assert isinstance(app.screen, ChoiceDialog)
+            assert app.screen.focused.id == "who"
+            await type_text(pilot, "A. Lead")
+            await pilot.press("enter")
+            await pilot.pause()
         d = on_disk(naive).decisions[second]
         assert (d.kind, d.reason, d.reviewer) == ("accepted", "bench only", "tester")
         # a note on the first decision
@@ -90,9 +97,13 @@ async def test_full_walk(naive, tmp_path):
         for field, value in (("drive.shared_signal", "false"), ("timing.dead_time", "800 ns")):
             await pilot.press("w")
             await pilot.pause()
+            assert app.screen.focused.id == "field"  # focus starts on the field
             app.screen.query_one("#field").value = field
             app.screen.query_one("#value").value = value
             app.screen.query_one("#value").focus()
+            await pilot.press("enter")  # Enter in the value moves to "why"
+            await pilot.pause()
+            assert app.screen.focused.id == "why"
             await pilot.press("enter")
             await settle(app, pilot)
         proposals = on_disk(naive).proposals
@@ -106,7 +117,7 @@ async def test_full_walk(naive, tmp_path):
         await pilot.pause()
         app.screen.query_one("#field").value = "timing.dead_time"
         app.screen.query_one("#value").value = "800 nF"
-        app.screen.query_one("#value").focus()
+        app.screen.query_one("#why").focus()
         await pilot.press("enter")
         await pilot.pause()
         assert "800 nF" in str(app.screen.query_one("#error").content)

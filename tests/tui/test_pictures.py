@@ -62,7 +62,8 @@ def test_commands_only_without_switching_times():
     s = sheet({"design.timing.dead_time": 0.0},
               missing=[Missing("switching.low.td_on", ("switch.low.ciss",))])
     lines = pictures.timing_picture(s, 40)
-    assert any("give switch.low.ciss" in line for line in lines)
+    assert all(len(line) <= pictures.LEAD + 40 for line in lines)  # sentences wrapped to fit
+    assert "give switch.low.ciss" in " ".join(line.strip() for line in lines)
     assert not any("channel" in line for line in lines)
 
 
@@ -98,7 +99,8 @@ def test_square_wave_bars_and_thd():
     after = row(lines, "THD after")
     assert "2.0 %" in after and "within the target" in row(lines, "After the filter")
     scale = thd * 1.1
-    tcol = round(0.08 / scale * width)
+    bars = width - 12  # the THD bars leave room for their labels and values within the width
+    tcol = round(0.08 / scale * bars)
     assert before[12 + tcol] == "┃" and after[12 + tcol] == "┃"
     assert "target 8.0 %" in lines[-2]
 
@@ -106,4 +108,43 @@ def test_square_wave_bars_and_thd():
 def test_no_spectrum_is_said():
     s = sheet({"design.output.thd_target": 0.05})
     lines = pictures.spectrum_picture(s)
-    assert "No spectrum" in lines[0] and "5.0 %" in lines[1]
+    assert "No spectrum" in lines[0] and "5.0 %" in lines[-1]
+
+
+def cornered(values_typ: dict[str, float], values_worst: dict[str, float]) -> Sheet:
+    """A sheet with two runs: typical, and one corner (switch.low.vth at min)."""
+    qs = {n: Quantity(n, "s", n, v, min(v, values_worst[n]), max(v, values_worst[n]),
+                      (v, values_worst[n]), "number") for n, v in values_typ.items()}
+    return Sheet(qs, {}, ((), (("switch.low.vth", "min"),)), {})
+
+
+def test_timing_drawn_at_the_corner_the_finding_was_judged_at():
+    from reviewer.findings import Finding
+    from reviewer.report.timing import worst_run
+
+    typ, worst = edge_values(100e-9), edge_values(100e-9)
+    for inc in ("low", "high"):  # a slower turn-off at the corner: 600 ns instead of 400 ns
+        worst[f"timing.{inc}.outgoing_turn_off"] = 600e-9
+        worst[f"timing.{inc}.overlap"] = 600e-9 - (100e-9 + 50e-9)
+    s = cornered(typ, worst)
+    f = Finding("timing.shoot-through", "high", "timing", "t", "hazard", "fail",
+                corner=(("switch.low.vth", "min"),))
+    assert worst_run(s, "high", [f]) == 1
+    lines = pictures.timing_picture(s, 60, [f])
+    text = " ".join(line.strip() for line in lines)  # sentences are wrapped to the width
+    at = text.index("AT THE WORST CORNER")
+    typical_at = text.index("at typical values", at)
+    # 600 − 150 = 450 ns at the corner, 400 − 150 = 250 ns typical (hand calculation)
+    assert "both on for 450 ns" in text[at:typical_at]
+    assert "both on for 250 ns" in text[typical_at:]
+    assert "switch.low.vth at min" in text[at:typical_at]
+    # panels are named by the outgoing and incoming switch, as the finding's text does
+    assert "outgoing low side, incoming high side (timing.shoot-through[high])" in text
+
+
+@pytest.mark.parametrize("width", [20, 30, 60, 120])
+def test_time_scale_at_every_width(width):
+    lines = pictures.timing_lines(pictures.edge(sheet(edge_values(100e-9)), "low"), width)
+    assert any("full width" in line for line in lines)
+    axis = next(i for i, line in enumerate(lines) if "┴" in line)
+    assert lines[axis + 1].strip()  # at least one time label under the ticks

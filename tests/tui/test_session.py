@@ -42,11 +42,16 @@ def test_decisions_are_saved_at_once(naive):
     assert on_disk.decisions[first].reviewer == "tester"
     with pytest.raises(DecisionError):
         walk.decide(first, "accepted", "  ")
-    walk.decide(first, "accepted", "clamped on the next revision")
+    hazard = walk.item(first).finding.severity == "hazard"
+    if hazard:  # accepting a hazard asks who accepts it, as well as why
+        with pytest.raises(DecisionError, match="who accepts"):
+            walk.decide(first, "accepted", "clamped on the next revision")
+    walk.decide(first, "accepted", "clamped on the next revision", "A. Lead, design owner")
     walk.note(first, "clamped by a zener on revision 2")
     on_disk = rec.load(rec.record_path(naive))
     assert on_disk.decisions[first].kind == "accepted"
     assert on_disk.decisions[first].reason == "clamped by a zener on revision 2"
+    assert on_disk.decisions[first].accepted_by == "A. Lead, design owner"
     assert walk.next_undecided(first) != first
 
 

@@ -26,3 +26,25 @@ def test_engine_never_imports_the_interface():
         if "tui" in path.parts or path.name == "walk.py":
             continue
         assert "reviewer.tui" not in path.read_text(encoding="utf-8"), path
+
+
+def test_quitting_says_where_the_record_is(naive, monkeypatch, capsys):
+    import os
+
+    from reviewer import record as rec
+    from reviewer.tui.app import WalkApp
+
+    seen = {}
+
+    def run(self, *a, **k):  # the app itself is driven by the pilot tests
+        seen["no_color"] = "NO_COLOR" in os.environ
+        self.walk.install(self.walk.refresh())
+        self.walk.decide(self.walk.next_undecided(None), "will_change")
+        return 0
+
+    monkeypatch.setattr(WalkApp, "run", run)
+    monkeypatch.delenv("NO_COLOR", raising=False)
+    assert main(["walk", str(naive), "--color", "never", "--reviewer", "ana"]) == 0
+    assert seen["no_color"]
+    assert f"Every decision and answer is in {rec.record_path(naive)}" in capsys.readouterr().err
+    monkeypatch.delenv("NO_COLOR", raising=False)
