@@ -33,7 +33,7 @@ def test_open_loop_output_class_follows_the_highest_bus(v_max, outcome):
     50.01 V highest bus produces 50.01 V rms, beyond the 50 V band (IEC 61140), whatever the
     target says."""
     r = review_text(square(v_max))
-    f = finding(r, "band.output-elv")
+    f = finding(r, "voltage-class.output-elv")
     assert f.value == pytest.approx(float(v_max.split()[0]), rel=1e-5)
     assert (f.outcome, f.severity) == (outcome, "hazard")
     assert r.beyond_elv is (outcome == "fail")
@@ -47,7 +47,7 @@ def test_closed_loop_output_class_is_the_upper_tolerance(tolerance, outcome):
     target with ±0.1 % can give 50.05 V: beyond the band."""
     text = bridge(("source", "v_max", '"80 V"'), ("output", "v_rms", '"50 V"'),
                   ("output", "v_tolerance", f'"{tolerance}"'), ("modulation", "regulated", "true"))
-    f = finding(review_text(text), "band.output-elv")
+    f = finding(review_text(text), "voltage-class.output-elv")
     assert f.value == pytest.approx(50.0 * (1 + float(tolerance.split()[0]) / 100))
     assert f.outcome == outcome
 
@@ -115,26 +115,26 @@ def test_highest_bus_from_the_chemistry(chemistry, v_nom, v_max):
     r = review_text(bridge(("source", "v_nom", f'"{v_nom}"'), ("source", "chemistry", f'"{chemistry}"')))
     assert r.sheet.value("op.bus_max") == pytest.approx(v_max)
     assert "from memory" in r.sheet.get("op.bus_max").note
-    assert finding(r, "band.bus-max-given").outcome == "pass"
+    assert finding(r, "voltage-class.bus-max-given").outcome == "pass"
 
 
 def test_highest_bus_never_silently_nominal():
     r = review_text(bridge())  # a battery, no chemistry, no v_max
-    f = finding(r, "band.bus-max-given")
+    f = finding(r, "voltage-class.bus-max-given")
     assert f.outcome == "fail" and "source.v_max" in f.mitigation
     assert "give source.v_max" in r.sheet.get("op.bus_max").note
     r = review_text(bridge(("source", "v_max", '"12 V"')))
-    assert finding(r, "band.bus-max-given").outcome == "pass"
+    assert finding(r, "voltage-class.bus-max-given").outcome == "pass"
 
 
 @pytest.mark.parametrize("name,expected", [
     ("careful_12v_sine", set()),
-    ("mains_output_transformer", {"band.output-elv"}),
+    ("mains_output_transformer", {"voltage-class.output-elv"}),
     ("naive_bench_pchannel", set()),
     ("nchannel_bootstrap_quasi", set()),
 ])
 def test_examples_band(name, expected):
-    assert_fails(review_file(example(name)), expected, area="band")
+    assert_fails(review_file(example(name)), expected, area="voltage-class")
 
 
 @pytest.mark.parametrize("v_max,outcome", [(120 - 1 / (2 * math.pi * 100 * 1e-3) - 1e-6, "pass"),
@@ -143,6 +143,6 @@ def test_bus_band_on_the_computed_peak(v_max, outcome):
     """The rectified bus above (1 A mean, 1 mF, 100 Hz): the crest adds √2 · 0.7071 · 1.5915 =
     1.5915 V to the highest mean, so the 120 V ripple-free band (IEC 61140) is crossed at a
     highest mean of 118.4085 V."""
-    f = finding(review_text(rectified("1 mF", v_max=f"{v_max} V")), "band.bus-elv")
+    f = finding(review_text(rectified("1 mF", v_max=f"{v_max} V")), "voltage-class.bus-elv")
     assert f.limit == 120.0
     assert (f.outcome, f.severity) == (outcome, "hazard")
