@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from reviewer.physics import band
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("band.bus_ripple", "%", "RMS ripple of the DC bus over its mean"),

@@ -4,7 +4,7 @@ needs and the gate voltage left at the end of the longest on-time the modulation
 from __future__ import annotations
 
 from reviewer.physics import bootstrap as bp
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("bootstrap.t_on_max", "s", "Longest continuous high-side on-time the modulation asks for"),

@@ -4,7 +4,7 @@
 from __future__ import annotations
 
 from reviewer.physics import spacing
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("isolation.required", "", "Insulation grade a touchable part needs from the power side", "text"),

@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import spacing
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("layout.bus.current", "A", "Continuous current in the bus path (input current)"),

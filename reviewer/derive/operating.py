@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("op.bus_min", "V", "Lowest bus voltage in service"),

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from reviewer.physics import protection
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("protection.has_fuse", "", "A fuse is fitted in the supply lead", "flag"),

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from reviewer.physics import gate, grounding
-from reviewer.quantities import SIDES, Ctx, declare
+from reviewer.context import SIDES, Ctx, declare
 
 QUANTITIES = declare(
     ("stress.{side}.overshoot", "V", "Drain-source overshoot at turn-off, L_loop · di/dt"),

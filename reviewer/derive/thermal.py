@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import thermal as tp
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 TJ_MARGIN = 25.0
 """Margin below T_j,max the heatsink figure is solved for [°C]; the rule's default margin."""
