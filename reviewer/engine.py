@@ -8,12 +8,14 @@ margin is not below zero (a relative slack of 1e-9 absorbs floating-point noise,
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import Any
 
 from reviewer.findings import Finding
 from reviewer.margins import SLACK, Margins, margins, rule_names
 from reviewer.quantities import Run, Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
+from reviewer.sensitivity import METHOD, swings, wanted
 from reviewer.units import render
 from reviewer.worstcase import runs_for
 
@@ -83,7 +85,10 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
         return _base(c, "not_applicable", search=method)
     if needs:
         return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)))
-    return finding_at(c, sheet, runs, m, method)
+    f = finding_at(c, sheet, runs, m, method)
+    if sheet.runner is not None and wanted(f):
+        f = replace(f, sensitivity=swings(c, sheet.runner), sensitivity_method=METHOD)
+    return f
 
 
 def finding_at(c: Compiled, sheet: Sheet, runs: list[Run], m: Margins, method: str,

@@ -27,6 +27,7 @@ from typing import Any
 
 from reviewer.margins import margins, rule_names
 from reviewer.rulebook.loader import Compiled
+from reviewer.spread import NO_INPUTS
 
 VERTEX_INPUTS = 10
 """Every vertex is run for a rule with at most this many toleranced inputs (2**10 corners)."""
@@ -44,7 +45,7 @@ def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
         runs.extend(runner.corner(((p, e),)) for e in ENDS)
     k = len(deps)
     if k == 0:
-        return runs, "no toleranced input reaches this check: judged at typical values"
+        return runs, NO_INPUTS
     if k <= VERTEX_INPUTS:
         for ends in itertools.product(ENDS, repeat=k):
             runs.append(runner.corner(zip(deps, ends)))

@@ -10,6 +10,7 @@ from rich.text import Text
 
 from reviewer.errors import Problem
 from reviewer.report import common
+from reviewer.spread import spread_rows
 from reviewer.tui.marks import ANSWER_WORD, LONG_WORD, decision_mark, outcome_mark
 from reviewer.tui.session import Item, Walk
 
@@ -155,6 +156,8 @@ def detail(walk: Walk, item: Item | None) -> Text:
         _row(t, "Limit", common.limit(f))
         _row(t, "Margin", common.margin(f), "bold" if (f.margin or 0) < 0 else "")
         _row(t, "Worst at", common.corner(f))
+    for label, sentence in spread_rows(f):  # worst-case search, yield, sensitivity
+        _row(t, label.capitalize(), sentence)
     if f.needs:
         _row(t, "Needs data", "give " + common.needs(f), "yellow")
     if f.assumptions:
