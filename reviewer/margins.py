@@ -108,6 +108,8 @@ def margins(c: Compiled, runs: Sequence[Any], verdict: bool = True) -> Margins:
         need = frozenset().union(*(e.names for e in exprs)) - set(c.params) - {"value", "limit"}
         ok = usable(need)
         value = limit = None
+        if not all(have[nm].any() for nm in need if nm in have):
+            verdict = False  # a name no run has: nothing to evaluate (the finding needs data)
         if not verdict:
             ok = np.zeros(n, dtype=bool)
             m = np.full(n, np.nan)

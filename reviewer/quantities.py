@@ -176,6 +176,7 @@ class Runner:
                       for n in d.names()}
         self._trees = [_Node() for _ in self.modules]
         self._corners: dict[Assign, Run] = {}
+        self._inside: dict[tuple, Run] = {}
         self._dep_runs = -1
         self._module_deps: list[frozenset[str]] = []
         self.read_fields: set[str] = set()
@@ -203,6 +204,23 @@ class Runner:
     def corners(self) -> dict[Assign, Run]:
         """Every corner run made so far, by corner."""
         return self._corners
+
+    def inside(self, corner: dict[str, str], at: dict[str, float]) -> Run:
+        """A kept run: inputs in ``corner`` at their "min"/"max" end, inputs in ``at`` at the
+        given values (inside their tolerance), the rest typical. Its label gives each value."""
+        from reviewer.units import render
+
+        key = (tuple(sorted(corner.items())), tuple(sorted(at.items())))
+        got = self._inside.get(key)
+        if got is None:
+            values = dict(self.base)
+            for p, e in corner.items():
+                values[p] = self.end(p, e)
+            values.update(at)
+            label = tuple(sorted([*corner.items(), *((p, render(x, self.units.get(p, ""), prec=4))
+                                                     for p, x in at.items())]))
+            got = self._inside[key] = self._run(values, label, typical=False)
+        return got
 
     def point(self, at: dict[str, float], label: Assign = ()) -> Run:
         """A run with the toleranced inputs in ``at`` at the given values (a sample); not kept."""

@@ -1,6 +1,7 @@
 """Property: over random tolerances on the bundled examples, every rule's reported worst margin
 is the minimum over every vertex of the tolerance box (the oracle runs all 2**k vertices of all
-toleranced inputs, k ≤ 10), and no uniformly drawn Monte Carlo point inside the box beats it."""
+toleranced inputs, k ≤ 10) — or below it, where the search found a margin that is smallest
+inside an input's tolerance — and no uniformly drawn Monte Carlo point inside the box beats it."""
 
 from __future__ import annotations
 
@@ -82,10 +83,12 @@ def test_reported_worst_is_the_vertex_minimum(case, book):
             best = float(np.min(np.where(judged, mv.margin, np.inf)))
             slack = SLACK * max(abs(f.limit), 1e-30) + 1e-12 * abs(best)
             assert f.margin <= best + slack, (name, f.key, f.margin, best)
-            # and it is a real point: the vertex minimum, or a one-at-a-time end below it
-            me = margins(c, ends)
-            seen = min(best, float(np.min(np.where(me.applies & me.ok, me.margin, np.inf))))
-            assert f.margin == pytest.approx(seen, rel=1e-12, abs=slack), (name, f.key)
+            if "inside the tolerance" not in f.search:
+                # monotonic in every input: exactly the vertex minimum (or a one-at-a-time
+                # end below it, for a margin that is not)
+                me = margins(c, ends)
+                seen = min(best, float(np.min(np.where(me.applies & me.ok, me.margin, np.inf))))
+                assert f.margin == pytest.approx(seen, rel=1e-12, abs=slack), (name, f.key)
             mp = margins(c, points)
             sample_best = float(np.min(np.where(mp.applies & mp.ok, mp.margin, np.inf)))
             assert sample_best >= f.margin - slack, (name, f.key, sample_best, f.margin)
