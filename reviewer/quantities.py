@@ -129,6 +129,16 @@ class Run:
         return name in self.out
 
 
+_GONE = object()
+
+
+def _same_value(a: Any, b: Any) -> bool:
+    try:
+        return bool(a == b)
+    except (TypeError, ValueError):
+        return False
+
+
 class _Node:
     """A replay tree: each node asks the read a module made next; a leaf holds its results."""
 
@@ -181,6 +191,8 @@ class Runner:
         self._module_deps: list[frozenset[str]] = []
         self.read_fields: set[str] = set()
         self.made = 0
+        self.vector_calls = 0
+        self.fallbacks = 0
         """How many runs were made (corners and samples), for the report and the benchmarks."""
         self.typical = self.corner(())
 
@@ -231,26 +243,106 @@ class Runner:
     def _run(self, values: dict[str, Any], label: Assign, typical: bool) -> Run:
         self.made += 1
         ctx = Ctx(self.design, values, self.catalogue, typical=typical)
-        reads: list[frozenset[tuple[str, str]]] = []
-        for module, tree in zip(self.modules, self._trees):
-            hit = _lookup(tree, ctx) if self.replay else None
-            if hit is None:
-                ctx.reads = []
-                out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
-                module.derive(ctx)
-                hit = ({k: v for k, v in ctx.out.items() if k not in out0},
-                       {k: v for k, v in ctx.missing.items() if k not in missing0},
-                       {k: v for k, v in ctx.notes.items() if k not in notes0},
-                       frozenset((kind, name) for kind, name, _ in ctx.reads))
-                if self.replay:
-                    _insert(tree, ctx.reads, hit)
-                self.read_fields.update(name for kind, name in hit[3] if kind == "v")
-            else:
-                ctx.out.update(hit[0])
-                ctx.missing.update(hit[1])
-                ctx.notes.update(hit[2])
-            reads.append(hit[3])
+        reads = [self._one(module, tree, ctx) for module, tree in zip(self.modules, self._trees)]
         return Run(label, values, ctx.out, ctx.missing, ctx.notes, tuple(reads), ctx.series)
+
+    def batch(self, points: list[dict[str, float]], labels: list[Assign] | None = None) -> list[Run]:
+        """Runs at many points at once (samples, say): not kept.
+
+        A derive module that sets ``VECTOR = True`` is called once for all points, reading
+        numpy arrays (one element per point) for inputs that differ between points and the
+        scalars of the others; every other module, and an opted-in module that raises on arrays
+        (a plain ``if`` on a value, say), runs once per point as in :meth:`point`. The results
+        are the same either way (tested to 1e-12)."""
+        import numpy as np
+
+        n = len(points)
+        labels = labels if labels is not None else [()] * n
+        ctxs = []
+        for at in points:
+            values = dict(self.base)
+            values.update(at)
+            ctxs.append(Ctx(self.design, values, self.catalogue, typical=False))
+        reads: list[list[frozenset[tuple[str, str]]]] = [[] for _ in range(n)]
+        varying = {p for p in self.tol if len({at.get(p) for at in points}) > 1}
+        for module, tree in zip(self.modules, self._trees):
+            done = False
+            if getattr(module, "VECTOR", False) and n > 1:
+                done = self._vector(module, ctxs, varying, reads, np)
+            if not done:
+                for i, ctx in enumerate(ctxs):
+                    reads[i].append(self._one(module, tree, ctx))
+        self.made += n
+        return [Run(labels[i], c._values, c.out, c.missing, c.notes, tuple(reads[i]), c.series)
+                for i, c in enumerate(ctxs)]
+
+    def _one(self, module: Any, tree: _Node, ctx: Ctx) -> frozenset[tuple[str, str]]:
+        """Run (or replay) one module in one scalar context; what it read."""
+        hit = _lookup(tree, ctx) if self.replay else None
+        if hit is None:
+            ctx.reads = []
+            out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
+            module.derive(ctx)
+            hit = ({k: v for k, v in ctx.out.items() if k not in out0},
+                   {k: v for k, v in ctx.missing.items() if k not in missing0},
+                   {k: v for k, v in ctx.notes.items() if k not in notes0},
+                   frozenset((kind, name) for kind, name, _ in ctx.reads))
+            if self.replay:
+                _insert(tree, ctx.reads, hit)
+            self.read_fields.update(name for kind, name in hit[3] if kind == "v")
+        else:
+            ctx.out.update(hit[0])
+            ctx.missing.update(hit[1])
+            ctx.notes.update(hit[2])
+        return hit[3]
+
+    def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list, np: Any) -> bool:
+        """One call of an opted-in module over every context; False to fall back to scalars."""
+        n = len(ctxs)
+        values = dict(ctxs[0]._values)
+        for p in varying:
+            values[p] = np.array([c._values[p] for c in ctxs], dtype=float)
+        first = ctxs[0]
+        out: dict[str, Any] = {}
+        for name in first.out:
+            col = [c.out.get(name, _GONE) for c in ctxs]
+            if any(x is _GONE for x in col):
+                return False
+            if all(_same_value(x, col[0]) for x in col):
+                out[name] = col[0]
+            elif all(_is_number(x) for x in col):
+                out[name] = np.array(col, dtype=float)
+            else:
+                return False
+        if any(c.missing != first.missing for c in ctxs):
+            return False
+        actx = Ctx(self.design, values, self.catalogue, typical=False)
+        actx.out = dict(out)
+        actx.missing = dict(first.missing)
+        before = set(actx.out)
+        try:
+            with np.errstate(all="ignore"):
+                module.derive(actx)
+        except (TypeError, ValueError):  # code that is not array-safe: per-element fallback
+            self.fallbacks += 1
+            return False
+        self.vector_calls += 1
+        new = {k: v for k, v in actx.out.items() if k not in before}
+        got = frozenset((kind, name) for kind, name, _ in actx.reads)
+        self.read_fields.update(name for kind, name in got if kind == "v")
+        for i, c in enumerate(ctxs):
+            for k, v in new.items():
+                if isinstance(v, np.ndarray) and v.shape == (n,):
+                    x = v[i].item()
+                elif isinstance(v, np.ndarray) and v.ndim == 0:
+                    x = v.item()
+                else:
+                    x = v
+                c.out[k] = x
+            c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
+            c.notes.update(actx.notes)
+            reads[i].append(got)
+        return True
 
     # dependencies ---------------------------------------------------------------------------
     def module_deps(self) -> list[frozenset[str]]:

@@ -86,16 +86,22 @@ def draw(spans: dict[str, Any], paths: tuple[str, ...], n: int,
 
 
 def sample_runs(runner: Any, n: int, seed: int = DEFAULT_SEED,
-                step: Callable[[], None] | None = None) -> list[Any]:
-    """``n`` runs of the derive step at sampled inputs; ``step`` is called after each."""
+                step: Callable[[], None] | None = None, chunk: int = 64) -> list[Any]:
+    """``n`` runs of the derive step at sampled inputs, made in batches of ``chunk`` (see
+    :meth:`reviewer.quantities.Runner.batch`); ``step`` is called once per sample."""
     values = draw(runner.spans, runner.tol, n, seed)
-    runs = []
-    for i in range(n):
-        at = {p: float(v[i]) for p, v in values.items()}
-        label = tuple((p, render(x, runner.units.get(p, ""), prec=4)) for p, x in at.items())
-        runs.append(runner.point(at, label))
+    runs: list[Any] = []
+    for start in range(0, n, chunk):
+        points, labels = [], []
+        for i in range(start, min(n, start + chunk)):
+            at = {p: float(v[i]) for p, v in values.items()}
+            points.append(at)
+            labels.append(tuple((p, render(x, runner.units.get(p, ""), prec=4))
+                                for p, x in at.items()))
+        runs.extend(runner.batch(points, labels))
         if step is not None:
-            step()
+            for _ in points:
+                step()
     return runs
 
 
