@@ -187,6 +187,7 @@ class Runner:
         self._trees = [_Node() for _ in self.modules]
         self._corners: dict[Assign, Run] = {}
         self._inside: dict[tuple, Run] = {}
+        self._varies = frozenset(self.tol)
         self._dep_runs = -1
         self._module_deps: list[frozenset[str]] = []
         self.read_fields: set[str] = set()
@@ -288,7 +289,12 @@ class Runner:
                    {k: v for k, v in ctx.notes.items() if k not in notes0},
                    frozenset((kind, name) for kind, name, _ in ctx.reads))
             if self.replay:
-                _insert(tree, ctx.reads, hit)
+                # a design field that is not toleranced has the same value in every run of
+                # this runner: only the reads that can differ go into the replay tree
+                # nor do reads of what the module published itself (it computes them again)
+                own = hit[0].keys() | hit[1].keys()
+                _insert(tree, [r for r in ctx.reads if (r[1] in self._varies if r[0] == "v"
+                                                        else r[1] not in own)], hit)
             self.read_fields.update(name for kind, name in hit[3] if kind == "v")
         else:
             ctx.out.update(hit[0])

@@ -94,7 +94,7 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
                            "is smallest away from its ends (golden-section search)")
 
 
-LEVELS = (0.02,) + tuple(i / 8 for i in range(1, 8)) + (0.98,)
+LEVELS = (0.02, 0.25, 0.5, 0.75, 0.98)
 """Interior probes of each input, as fractions of its tolerance from min to max (the first and
 last show a margin that falls on leaving an end: a minimum just inside it)."""
 
@@ -104,7 +104,7 @@ def _tiny(x: np.ndarray) -> float:
     return 1e-9 * (float(np.max(np.abs(finite))) if finite.size else 1.0)
 
 
-def _golden(f: Any, probes: list[float], steps: int = 14) -> float:
+def _golden(f: Any, probes: list[float], steps: int = 12) -> float:
     """Minimise ``f`` on [0, 1] near the best of its values at :data:`LEVELS`."""
     i = int(np.argmin(probes))
     a, b = (LEVELS[i - 1] if i > 0 else 0.0), (LEVELS[i + 1] if i + 1 < len(LEVELS) else 1.0)
