@@ -90,11 +90,12 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out.append("")
     passed = r.by_outcome("pass")
     if passed:
-        out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin | Yield |",
-                "|---|---|---|---|---|---|"]
+        y = any(f.spread is not None for f in passed)  # a Yield column when samples were drawn
+        out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin |"
+                + (" Yield |" if y else ""), "|---|---|---|---|---|" + ("---|" if y else "")]
         out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.computed(f) or 'holds')} | "
-                f"{_cell(common.limit(f))} | {_cell(common.margin(f))} | {yield_cell(f)} |"
-                for f in passed]
+                f"{_cell(common.limit(f))} | {_cell(common.margin(f))} |"
+                + (f" {yield_cell(f)} |" if y else "") for f in passed]
         out.append("")
     out += _layout(r)
     if rec.proposals:

@@ -158,3 +158,18 @@ def test_read_fields_are_design_paths(book):
     sheet = compute(parse_design(CAREFUL, "c.toml"))
     assert "timing.dead_time" in sheet.read_fields
     assert not any(p.startswith("design.") for p in sheet.read_fields)
+
+
+def test_sensitivity_names_the_dead_time_swing(book):
+    # margin = dead time − needed, linear in the dead time: 125 ns ± 20 % swings it by ±25 ns
+    from reviewer.spread import sensitivity_line
+
+    c = compiled(book, "timing.shoot-through[high]")
+    f = judge(c, compute(parse_design(variant(DEAD_TIME), "v.toml")), {})
+    swing = {w.field: w for w in f.sensitivity}
+    assert swing["timing.dead_time"].swing == pytest.approx(25e-9, rel=1e-9)
+    assert swing["timing.dead_time"].tolerance == "±20 %"
+    assert sum(w.share for w in f.sensitivity) == pytest.approx(1.0)
+    assert [w.share for w in f.sensitivity] == sorted((w.share for w in f.sensitivity), reverse=True)
+    assert "timing.dead_time ±20 % moves this margin by ±25 ns" in sensitivity_line(f)
+    assert "one-at-a-time" in f.sensitivity_method
