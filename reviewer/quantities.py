@@ -514,21 +514,33 @@ def catalogue(modules: list[Any] | None = None) -> dict[str, Declared]:
 
 
 def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None,
-            replay: bool = True) -> Sheet:
+            replay: bool = True, combined: bool = True) -> Sheet:
     """Run every derive module over the design's tolerance corners and return the sheet.
 
     ``focus`` names the quantities whose extremes the sheet should show (those the rules judge);
     the combined-corner runs are made for these only. None: every published number. With
     ``replay``, a module whose reads in a run equal those of an earlier run is not run again.
-    The sheet's :attr:`Sheet.runner` makes the further corners each rule's own worst-case
-    search needs (:mod:`reviewer.worstcase`).
+    With ``combined`` False, the sheet has the typical and one-at-a-time runs only: for a caller
+    that judges the rules next and then takes :func:`with_all_runs` (the rules' own corners give
+    the extremes). The sheet's :attr:`Sheet.runner` makes the further corners each rule's own
+    worst-case search needs (:mod:`reviewer.worstcase`).
     """
     runner = Runner(design, replay=replay)
-    return sheet_of(runner, max_runs=max_runs, focus=focus)
+    return sheet_of(runner, max_runs=max_runs, focus=focus, combined=combined)
+
+
+def with_all_runs(sheet: Sheet) -> Sheet:
+    """The sheet again, its quantities' extremes taken over every run its runner has kept (the
+    corners and inside points the rules were judged on, as well as the sheet's own)."""
+    runner = sheet.runner
+    if runner is None:
+        return sheet
+    runs = list(runner.corners.values()) + list(runner._inside.values())
+    return _sheet(runner, runs)
 
 
 def sheet_of(runner: Runner, max_runs: int = 400,
-             focus: set[str] | frozenset[str] | None = None) -> Sheet:
+             focus: set[str] | frozenset[str] | None = None, combined: bool = True) -> Sheet:
     """The sheet of a runner: typical, one-at-a-time ends and per-quantity combined corners."""
     tol = runner.tol
     typ = runner.typical
@@ -537,7 +549,8 @@ def sheet_of(runner: Runner, max_runs: int = 400,
         for end in ("min", "max"):
             runs.append(runner.corner(((p, end),)))
     seen = {r.label for r in runs}
-    numeric = [n for n, v in typ.out.items() if _is_number(v) and (focus is None or n in focus)]
+    numeric = [n for n, v in typ.out.items() if _is_number(v) and (focus is None or n in focus)
+               and combined]
     for n in numeric:
         y0 = typ.out[n]
         for direction in (1, -1):
@@ -557,7 +570,11 @@ def sheet_of(runner: Runner, max_runs: int = 400,
                 break
             seen.add(key)
             runs.append(runner.corner(key))
+    return _sheet(runner, runs)
 
+
+def _sheet(runner: Runner, runs: list[Run]) -> Sheet:
+    typ = runs[0]
     cat = runner.catalogue
     quantities: dict[str, Quantity] = {}
     for n, v in typ.out.items():
