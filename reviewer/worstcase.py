@@ -60,16 +60,25 @@ def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
 
 def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
               method: str) -> tuple[list[Any], str]:
-    """Where the margin is smallest inside an input's tolerance rather than at an end (with
-    the others typical, probed at :data:`LEVELS`), search that input by golden section with
-    the others at the worst corner found: a margin that is not monotonic in an input (a ripple
-    current that peaks at a middle modulation index, say) is then not missed."""
+    """Where the margin is smallest inside an input's tolerance rather than at an end, search
+    that input by golden section with the others at the worst corner found: a margin that is
+    not monotonic in an input (a ripple current that peaks at a middle modulation index, say)
+    is then not missed. An input is probed (at :data:`LEVELS`, the others typical) where the
+    typical run lies below the chord between its two one-at-a-time ends, the sign of a margin
+    that bends down between them; the yield self-check covers what this misses."""
     score = margins(c, runs).score
     worst = runs[int(np.argmin(score))]
     corner = dict(worst.label) if all(e in ENDS for _, e in worst.label) else {}
     bent: list[str] = []
-    for p in deps:
+    typical = float(score[0])
+    for i, p in enumerate(deps):
         s = runner.spans[p]
+        lo, hi = float(score[1 + 2 * i]), float(score[2 + 2 * i])
+        if not np.isfinite([lo, hi, typical]).all() or s.hi <= s.lo:
+            continue  # not applicable or not computable at an end: nothing to bend
+        chord = lo + (s.typ - s.lo) / (s.hi - s.lo) * (hi - lo)
+        if typical >= chord - _tiny(np.array([lo, hi, typical])):
+            continue  # typical on or above the chord of the ends: no dip shows; not probed
         probe = [runner.inside({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS]
         ends = [runner.corner(((p, e),)) for e in ENDS]
         inner = margins(c, probe).score
