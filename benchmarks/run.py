@@ -121,7 +121,8 @@ def variants(n: int, book) -> None:
     text = CAREFUL.read_text(encoding="utf-8")
     designs = []
     for i in range(n):
-        t = text.replace('dead_time = "500 ns ± 10%"', f'dead_time = "{300 + 5 * i} ns ± {5 + i % 15}%"')
+        t = text.replace('dead_time = "500 ns ± 10%"',
+                         f'dead_time = "{300 + 5 * i} ns ± {5 + i % 15}%"')
         t = t.replace('bulk = "4.7 mF"', f'bulk = "{4.7 + 0.01 * i:.2f} mF ± 20%"')
         designs.append(t)
     with tempfile.TemporaryDirectory():

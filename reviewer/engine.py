@@ -3,7 +3,8 @@
 Each rule is judged on its own margin over the runs :mod:`reviewer.worstcase` chooses for it
 (every vertex of the toleranced inputs it depends on, or a search); its finding takes every
 number from one run, the worst. Knows nothing of files or views. A limit holds when its
-margin is not below zero (a relative slack of 1e-9 absorbs floating-point noise, so a value exactly at its limit passes).
+margin is not below zero (a relative slack of 1e-9 absorbs floating-point noise, so a value
+exactly at its limit passes).
 """
 
 from __future__ import annotations

@@ -247,7 +247,8 @@ class Runner:
         reads = [self._one(module, tree, ctx) for module, tree in zip(self.modules, self._trees)]
         return Run(label, values, ctx.out, ctx.missing, ctx.notes, tuple(reads), ctx.series)
 
-    def batch(self, points: list[dict[str, float]], labels: list[Assign] | None = None) -> list[Run]:
+    def batch(self, points: list[dict[str, float]],
+              labels: list[Assign] | None = None) -> list[Run]:
         """Runs at many points at once (samples, say): not kept.
 
         A derive module that sets ``VECTOR = True`` is called once for all points, reading
@@ -302,7 +303,8 @@ class Runner:
             ctx.notes.update(hit[2])
         return hit[3]
 
-    def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list, np: Any) -> bool:
+    def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
+                np: Any) -> bool:
         """One call of an opted-in module over every context; False to fall back to scalars."""
         n = len(ctxs)
         values = dict(ctxs[0]._values)

@@ -75,7 +75,8 @@ def yield_line(f: Any) -> str:
         text += (f"; margin min {render(s.margin_min, f.unit)}, 1st percentile "
                  f"{render(s.margin_p01, f.unit)}, median {render(s.margin_median, f.unit)}")
     if s.missed:
-        text += "; a sample was worse than the corner search found: it is reported as the worst case"
+        text += ("; a sample was worse than the corner search found: it is reported as the "
+                 "worst case")
     return text
 
 

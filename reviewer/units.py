@@ -218,7 +218,8 @@ def parse_span(value: object, unit: str) -> Span:
         unknown = set(value) - {"min", "typ", "max", "sigma"}
         if unknown:
             raise UnitError(
-                f"a toleranced value takes the keys min, typ, max and sigma; found {sorted(unknown)}"
+                "a toleranced value takes the keys min, typ, max and sigma; "
+                f"found {sorted(unknown)}"
             )
         sigma_text = value.get("sigma")
         value = {k: v for k, v in value.items() if k != "sigma"}

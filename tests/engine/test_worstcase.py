@@ -170,6 +170,7 @@ def test_sensitivity_names_the_dead_time_swing(book):
     assert swing["timing.dead_time"].swing == pytest.approx(25e-9, rel=1e-9)
     assert swing["timing.dead_time"].tolerance == "±20 %"
     assert sum(w.share for w in f.sensitivity) == pytest.approx(1.0)
-    assert [w.share for w in f.sensitivity] == sorted((w.share for w in f.sensitivity), reverse=True)
+    shares = [w.share for w in f.sensitivity]
+    assert shares == sorted(shares, reverse=True)
     assert "timing.dead_time ±20 % moves this margin by ±25 ns" in sensitivity_line(f)
     assert "one-at-a-time" in f.sensitivity_method
