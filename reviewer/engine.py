@@ -1,19 +1,26 @@
 """The engine: every compiled rule against the calculation sheet, at its worst corner -> findings.
 
-Knows nothing of files or views. A limit holds when its margin is not below zero (a relative
-slack of 1e-9 absorbs floating-point noise, so a value exactly at its limit passes).
+Each rule is judged on its own margin over the runs :mod:`reviewer.worstcase` chooses for it
+(every vertex of the toleranced inputs it depends on, or a search); its finding takes every
+number from one run, the worst. Knows nothing of files or views. A limit holds when its
+margin is not below zero (a relative slack of 1e-9 absorbs floating-point noise, so a value
+exactly at its limit passes).
 """
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import Any
 
 from reviewer.findings import Finding
-from reviewer.quantities import Sheet
+from reviewer.margins import SLACK, Margins, margins, rule_names
+from reviewer.quantities import Run, Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
+from reviewer.sensitivity import METHOD, swings, wanted
 from reviewer.units import render
+from reviewer.worstcase import runs_for
 
-SLACK = 1e-9
+__all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text", "corner_text"]
 
 
 def evaluate(book: Rulebook, sheet: Sheet, answers: dict[str, Any] | None = None) -> list[Finding]:
@@ -32,81 +39,107 @@ def _base(c: Compiled, outcome: str, **kw: Any) -> Finding:
     )
 
 
-class _Env:
-    """Values a rule reads, as arrays over the sheet's runs; absent names are collected."""
+def _sheet_runs(sheet: Sheet) -> list[Run]:
+    """The runs of a sheet built without a runner, rebuilt from its quantities' values."""
+    runs = []
+    for i, label in enumerate(sheet.corners):
+        values: dict[str, Any] = {}
+        out: dict[str, Any] = {}
+        for name, q in sheet.quantities.items():
+            x = q.runs[i] if i < len(q.runs) else None
+            if q.origin == "design" and name.startswith("design."):
+                values[name[7:]] = x
+            elif x is not None:
+                out[name] = x
+        runs.append(Run(label, values, out, {}, {}, ()))
+    return runs
 
-    def __init__(self, sheet: Sheet, params: dict[str, float]):
-        self.sheet = sheet
-        self.values: dict[str, Any] = dict(params)
-        self.needs: list[str] = []
 
-    def load(self, names: frozenset[str]) -> bool:
-        import numpy as np
+def runs_of(c: Compiled, sheet: Sheet) -> tuple[list[Run], str]:
+    """The runs rule ``c`` is judged on (see :mod:`reviewer.worstcase`) and how they were chosen."""
+    if sheet.runner is None:
+        return _sheet_runs(sheet), "worst of the sheet's corner runs"
+    return runs_for(c, sheet.runner)
 
-        ok = True
-        for n in names:
-            if n in self.values:
-                continue
-            q = self.sheet.quantities.get(n)
-            if q is None:
-                miss = self.sheet.missing.get(n)
-                self.needs.extend(miss.needs if miss else (n,))
-                ok = False
-            elif q.kind == "text":
-                self.values[n] = q.typ
-            elif q.kind == "flag":
-                self.values[n] = np.array(q.runs, dtype=bool)
-            else:
-                self.values[n] = np.array(q.runs, dtype=float)
-        return ok
+
+def _needs(sheet: Sheet, names: frozenset[str]) -> list[str]:
+    needs: list[str] = []
+    for n in sorted(names):
+        if n not in sheet.quantities:
+            miss = sheet.missing.get(n)
+            needs.extend(miss.needs if miss else (n,))
+    return needs
 
 
 def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
-    import numpy as np
-
     rule = c.rule
     if rule.kind == "question":
         return _question(c, answers)
-    env = _Env(sheet, c.params)
-    n = sheet.run_count
     if c.applies is not None:
-        if not env.load(c.applies.names):
-            return _base(c, "needs_data", needs=tuple(dict.fromkeys(env.needs)))
-        if not bool(np.broadcast_to(c.applies.evaluate(env.values), (n,))[0]):
-            return _base(c, "not_applicable")
-    exprs = [e for e in (c.value, c.limit, c.fails_when, c.pass_value) if e is not None]
-    mit_exprs = _mitigation_names(c)
-    for e in exprs:
-        env.load(e.names - {"value", "limit"})
-    if env.needs:
-        return _base(c, "needs_data", needs=tuple(dict.fromkeys(env.needs)))
-    env.load(mit_exprs)  # names only the text uses: shown as "—" when absent, never blocking
+        needs = _needs(sheet, c.applies.names - set(c.params))
+        if needs:
+            return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)))
+    runs, method = runs_of(c, sheet)
+    needs = _needs(sheet, rule_names(c, applies=False))
+    m = margins(c, runs, verdict=not needs)
+    if not m.applies.any():
+        return _base(c, "not_applicable", search=method)
+    if needs:
+        return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)))
+    f = finding_at(c, sheet, runs, m, method)
+    if sheet.runner is not None and wanted(f):
+        f = replace(f, sensitivity=swings(c, sheet.runner), sensitivity_method=METHOD)
+    return f
 
-    value = limit = margin = None
-    if c.value is not None:
-        v = np.broadcast_to(np.asarray(c.value.evaluate(env.values), dtype=float), (n,))
-        lim = c.limit_const if c.limit is None else c.limit.evaluate({**env.values, "value": v})
-        lim = np.broadcast_to(np.asarray(lim, dtype=float), (n,))
-        m = (lim - v) if rule.at_most is not None else (v - lim)
-        m = np.where(np.isnan(m), -np.inf, m)
-        idx = int(np.argmin(m))
-        failed = m[idx] < -SLACK * max(abs(lim[idx]), 1e-30)
-        value, limit, margin = float(v[idx]), float(lim[idx]), float(m[idx])
-        env.values["value"], env.values["limit"] = v, lim
-        value_typ = float(v[0])
-    else:
-        f = np.broadcast_to(np.asarray(c.fails_when.evaluate(env.values), dtype=bool), (n,))
-        hits = np.flatnonzero(f)
-        failed = bool(hits.size)
-        idx = int(hits[0]) if failed else 0
-        value_typ = None
-    scalars = {k: (val[idx] if isinstance(val, np.ndarray) and val.shape == (n,) else val)
-               for k, val in env.values.items()}
+
+def finding_at(c: Compiled, sheet: Sheet, runs: list[Run], m: Margins, method: str,
+               **extra: Any) -> Finding:
+    """The finding of rule ``c`` at its worst run among ``runs`` (evaluated as ``m``)."""
+    import numpy as np
+
+    rule = c.rule
+    judged = m.applies & m.ok
+    blind = np.flatnonzero(m.applies & ~m.ok)
+    uncomputed = ""
+    if blind.size:
+        i = int(blind[0])
+        what = ", ".join(m.absent[i]) or "the value"
+        uncomputed = (f"{what} cannot be computed at {corner_text(runs[i].label)}"
+                      + (f" ({blind.size} of {len(runs)} runs)" if blind.size > 1 else ""))
+    if not judged.any():
+        needs = [x for n in m.absent[int(blind[0])] for x in _run_needs(runs[int(blind[0])], n)]
+        return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)), search=method,
+                     uncomputed=uncomputed, **extra)
+    score = np.where(judged, m.margin, np.inf)
+    low = float(np.min(score))
+    ties = np.flatnonzero(score <= low + 1e-12 * max(1.0, abs(low))) if np.isfinite(low) \
+        else np.flatnonzero(score == low)
+    idx = min(ties, key=lambda i: (len(runs[i].label), i))  # the plainest of equal corners
+    idx = int(idx)
+    failed = m.failed(idx)
+    if not failed and blind.size:
+        i = int(blind[0])
+        needs = [x for n in m.absent[i] for x in _run_needs(runs[i], n)]
+        return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)), search=method,
+                     uncomputed=uncomputed, **extra)
+    value = limit = margin = value_typ = None
+    if m.value is not None:
+        value, limit, margin = float(m.value[idx]), float(m.limit[idx]), float(m.margin[idx])
+        value_typ = float(m.value[0]) if judged[0] else None
+    run = runs[idx]
+    scalars = {k: (v[idx] if isinstance(v, np.ndarray) and v.shape == (len(runs),) else v)
+               for k, v in m.env.items()}
+    extra_names = _mitigation_names(c) | (c.pass_value.names if c.pass_value is not None else set())
+    for name in extra_names - set(scalars) - {"value", "limit", "pass_value", "margin", "subject"}:
+        x = run.get(name)
+        if x is None and not any(r.get(name) is not None for r in runs[1:]):
+            x = runs[0].get(name)  # a figure computed at typical values only (its note says so)
+        if x is not None:
+            scalars[name] = x
     pass_value = None
     if c.pass_value is not None and failed:
         try:
-            pv = c.pass_value.evaluate(scalars)
-            pass_value = float(pv)
+            pass_value = float(c.pass_value.evaluate(scalars))
         except Exception:  # a pass value that cannot be computed here (e.g. no positive solution)
             pass_value = None
         scalars["pass_value"] = pass_value
@@ -118,8 +151,21 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
         margin=margin, pass_value=pass_value,
         pass_unit=rule.pass_.unit if rule.pass_ else "",
         pass_field=(rule.pass_.field.replace("{each}", c.subject) if rule.pass_ else ""),
-        mitigation=text, corner=sheet.corners[idx] if idx < len(sheet.corners) else (),
+        mitigation=text, corner=run.label, search=method, uncomputed=uncomputed, **extra,
     )
+
+
+def _run_needs(run: Run, name: str) -> tuple[str, ...]:
+    if name.startswith("design."):
+        return (name[7:],)
+    return run.missing.get(name) or (name,)
+
+
+def corner_text(label: tuple[tuple[str, str], ...]) -> str:
+    """A corner in words: "typical values" or "timing.dead_time at min, switch.high.vth at max"."""
+    if not label:
+        return "typical values"
+    return ", ".join(f"{p} at {e}" for p, e in label)
 
 
 def _mitigation_names(c: Compiled) -> frozenset[str]:

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from reviewer.spread import Spread, Swing
+
 SEVERITIES = ("hazard", "risk", "advice")
 OUTCOMES = ("fail", "open", "needs_data", "pass", "answered", "not_applicable")
 """fail: the check does not hold; open: a checklist question awaits an answer; needs_data: the
@@ -47,6 +49,11 @@ class Finding:
     question: str = ""
     answer_note: str = ""
     assumptions: tuple[str, ...] = field(default_factory=tuple)
+    search: str = ""  # how the worst corner was found (every vertex, or a search)
+    uncomputed: str = ""  # where a quantity this check needs cannot be computed, as a sentence
+    sensitivity: tuple[Swing, ...] = ()  # inputs ranked by their share of the margin's spread
+    sensitivity_method: str = ""
+    spread: Spread | None = None  # yield over Monte Carlo samples, when drawn
 
     @property
     def key(self) -> str:

@@ -5,66 +5,48 @@ compute is *published* here under a name declared in advance (its unit and label
 declaration). Design fields are published too, under ``design.<path>``. Rules read this one
 namespace; the report's calculation sheet lists it.
 
-Tolerance corners
------------------
-A quantity's worst corner is found in three passes over the derive step, each a plain scalar run:
+Runs
+----
+A :class:`Runner` runs every derive module for one design at any point of its tolerance box:
+a *corner* (each toleranced input at typical, min or max) or a *sample* (any values inside the
+box). A run keeps what each module read; a module whose reads in a run equal those of an earlier
+run is not run again (derive code is deterministic: the same reads give the same results), which
+makes the many corner runs of a worst-case search cheap. What the modules read also gives, for
+every published quantity, the toleranced inputs it depends on (through the values it read from
+earlier modules): :meth:`Runner.deps`.
 
-1. the typical run (every input at its typical value);
-2. one run per end of every toleranced input (that input at min or max, the rest typical), which
-   shows which end pushes each quantity up or down;
-3. for every quantity and direction, one run with each toleranced input set to the end that
-   pushed it that way (runs that coincide are made once).
-
-Every quantity then carries its value in every run; its low and high are the extremes over the
-runs, and a rule picks the run where its own margin is worst. This finds the true worst corner of
-any quantity that is monotonic in each input (the usual case for these formulas); a quantity
-that is not monotonic in an input may be underestimated, as with any corner analysis.
+The sheet
+---------
+:func:`compute` makes the typical run, one run per end of every toleranced input, and, for each
+quantity the rules judge, the run with every input at the end that pushed it each way. A
+quantity's low and high on the sheet are the extremes over those runs; a quantity that a run
+could not compute is ``None`` in that run, never filled in from another run. The rules are then
+judged on their own margins by :mod:`reviewer.worstcase` (every vertex of the inputs a rule
+depends on, or a search), which asks the sheet's runner for the corners it needs.
 """
 
 from __future__ import annotations
 
-import math
 import re
-from contextlib import contextmanager
 from dataclasses import dataclass, field
-from typing import Any, Iterator
+from typing import Any, Iterable
 
+from reviewer.context import SIDES, Ctx, Declared, NeedsData, declare
+from reviewer.derive import MODULES
 from reviewer.units import Span
 
-SIDES = ("high", "low")
+__all__ = ["SIDES", "Ctx", "Declared", "NeedsData", "declare", "Quantity", "Missing", "Sheet",
+           "Run", "Runner", "compute", "catalogue", "design_values"]
 
-
-@dataclass(frozen=True)
-class Declared:
-    """A quantity a derive module may publish: name pattern (``{side}`` for each side), unit, label."""
-
-    pattern: str
-    unit: str
-    label: str
-    kind: str = "number"  # number | flag | text
-
-    def names(self) -> list[str]:
-        if "{side}" in self.pattern:
-            return [self.pattern.replace("{side}", s) for s in SIDES]
-        return [self.pattern]
-
-
-def declare(*rows: tuple) -> list[Declared]:
-    """Declare what a derive module publishes: rows of (pattern, unit, label[, kind])."""
-    return [Declared(*row) for row in rows]
-
-
-class NeedsData(Exception):
-    """Raised inside a derive section when a value it needs was not given."""
-
-    def __init__(self, *needs: str):
-        self.needs = tuple(needs)
-        super().__init__(", ".join(needs))
+Assign = tuple[tuple[str, str], ...]
+"""A corner: which toleranced inputs are away from typical, ((path, "min"|"max"), ...), sorted."""
 
 
 @dataclass(frozen=True)
 class Quantity:
-    """One published value: typical, low and high over the corners, and its value in every run."""
+    """One published value: typical, low and high over the corners, and its value in every run.
+
+    ``runs`` holds None where a run could not compute the quantity."""
 
     name: str
     unit: str
@@ -96,10 +78,13 @@ class Sheet:
 
     quantities: dict[str, Quantity]
     missing: dict[str, Missing]
-    corners: tuple[tuple[tuple[str, str], ...], ...]
+    corners: tuple[Assign, ...]
     """For each run, which toleranced inputs were away from typical: ((path, "min"|"max"), ...)."""
     series: dict[str, Any] = field(default_factory=dict)
     """Data for pictures (spectra, timing), from the typical run; never judged by rules."""
+    runner: "Runner | None" = field(default=None, compare=False, repr=False)
+    """Makes further runs of the same design (the per-rule worst-case search); None on a sheet
+    built by hand, where the engine judges the runs above only."""
 
     def get(self, name: str) -> Quantity | None:
         return self.quantities.get(name)
@@ -112,93 +97,328 @@ class Sheet:
     def run_count(self) -> int:
         return len(self.corners)
 
+    @property
+    def read_fields(self) -> frozenset[str]:
+        """Every design path (dotted, without ``design.``) a derive module read in any run."""
+        return frozenset(self.runner.read_fields) if self.runner is not None else frozenset()
 
-class Ctx:
-    """What a derive module sees during one run: the design's values at this corner."""
 
-    def __init__(self, design: Any, values: dict[str, Any], catalogue: dict[str, Declared],
-                 typical: bool = True):
-        self.design = design
-        self.typical = typical
-        """True in the typical run only: compute picture data (``plot``) there and nowhere else."""
-        self._values = values
-        self._catalogue = catalogue
-        self.out: dict[str, Any] = {}
-        self.missing: dict[str, tuple[str, ...]] = {}
-        self.notes: dict[str, str] = {}
-        self.series: dict[str, Any] = {}
-        self.reads: list[tuple[str, str, Any]] = []
-        """What the running module read, in order: replaying a module whose reads are the same
-        as a run before gives the same results (derive code is deterministic)."""
+@dataclass
+class Run:
+    """One run of every derive module: the design values it used and what was published."""
 
-    # reading the design -------------------------------------------------------------------
-    def v(self, path: str) -> Any:
-        """The value of design field ``path`` at this corner (a float for quantities), or None."""
-        try:
-            value = self._values[path]
-        except KeyError:
-            raise KeyError(f"no design field {path!r}") from None
-        self.reads.append(("v", path, value))
-        return value
+    label: Assign
+    """The corner, ((path, "min"|"max"), ...); for a sample, ((path, "<value>"), ...)."""
+    values: dict[str, Any]
+    out: dict[str, Any]
+    missing: dict[str, tuple[str, ...]]
+    notes: dict[str, str]
+    reads: tuple[frozenset[tuple[str, str]], ...]
+    """For each module in order, what it read: ("v", design path), ("q"/"h", quantity name)."""
+    series: dict[str, Any] = field(default_factory=dict)
 
-    def need(self, *paths: str) -> Any:
-        """Like :meth:`v` for each path, raising :class:`NeedsData` naming every absent one."""
-        values = [self.v(p) for p in paths]
-        absent = [p for p, x in zip(paths, values) if x is None]
-        if absent:
-            raise NeedsData(*absent)
-        return values[0] if len(values) == 1 else values
-
-    def q(self, name: str) -> Any:
-        """A value published earlier in this run; :class:`NeedsData` if it could not be computed."""
-        self.reads.append(("q", name, self.peek("q", name)))
-        if name in self.out:
-            return self.out[name]
-        if name in self.missing:
-            raise NeedsData(*self.missing[name])
-        raise KeyError(f"{name!r} is not published (yet): check the derive order")
+    def get(self, name: str, default: Any = None) -> Any:
+        """A sheet name's value in this run (``design.<path>`` or a published quantity)."""
+        if name.startswith("design."):
+            return self.values.get(name[7:], default)
+        return self.out.get(name, default)
 
     def has(self, name: str) -> bool:
-        self.reads.append(("h", name, name in self.out))
+        if name.startswith("design."):
+            return self.values.get(name[7:]) is not None
         return name in self.out
 
-    def peek(self, kind: str, name: str) -> Any:
-        """What a read of ``kind`` ("v", "q", "h") would see now, without recording it."""
-        if kind == "v":
-            return self._values[name]
-        if kind == "h":
-            return name in self.out
-        if name in self.out:
-            return ("value", self.out[name])
-        return ("missing", self.missing.get(name))
 
-    # publishing ---------------------------------------------------------------------------
-    def publish(self, name: str, value: Any, note: str = "") -> None:
-        """Publish ``value`` (SI, in the declared unit) under the declared ``name``."""
-        if name not in self._catalogue:
-            raise KeyError(f"{name!r} is published but not declared")
-        if isinstance(value, float) and math.isnan(value):
-            raise ValueError(f"{name!r}: NaN published; publish a flag or nothing instead")
-        self.out[name] = value
-        if note:
-            self.notes[name] = note
+_GONE = object()
 
-    @contextmanager
-    def section(self, *names: str) -> Iterator[None]:
-        """Compute ``names`` inside the block; if it lacks data, mark them all missing."""
+
+def _same_value(a: Any, b: Any) -> bool:
+    try:
+        return bool(a == b)
+    except (TypeError, ValueError):
+        return False
+
+
+class _Node:
+    """A replay tree: each node asks the read a module made next; a leaf holds its results."""
+
+    __slots__ = ("read", "kids", "result")
+
+    def __init__(self) -> None:
+        self.read: tuple[str, str] | None = None
+        self.kids: dict[Any, _Node] = {}
+        self.result: tuple[dict, dict, dict, frozenset] | None = None
+
+
+def _key(x: Any) -> Any:
+    try:
+        hash(x)
+    except TypeError:  # lists and tables: compared by their text
+        return ("~", repr(x))
+    if isinstance(x, float) and x != x:
+        return ("~nan",)
+    return x
+
+
+class Runner:
+    """Runs the derive modules for one design at any point of its tolerance box.
+
+    Corner runs are kept (asking twice for a corner runs it once); sample runs are not.
+
+    Parameters
+    ----------
+    design : Design
+        The validated design.
+    replay : bool
+        Reuse a module's results when its reads equal those of an earlier run.
+    modules : list, optional
+        The derive modules in order (default :data:`reviewer.derive.MODULES`).
+    """
+
+    def __init__(self, design: Any, replay: bool = True, modules: list[Any] | None = None):
+        self.design = design
+        self.modules = list(MODULES if modules is None else modules)
+        self.catalogue = catalogue(self.modules)
+        self.base, self.spans, self.units = design_values(design)
+        self.tol: tuple[str, ...] = tuple(p for p, s in self.spans.items() if not s.exact)
+        self.replay = replay
+        self.owner = {n: i for i, m in enumerate(self.modules) for d in m.QUANTITIES
+                      for n in d.names()}
+        self._trees = [_Node() for _ in self.modules]
+        self._corners: dict[Assign, Run] = {}
+        self._inside: dict[tuple, Run] = {}
+        self._varies = frozenset(self.tol)
+        self._dep_runs = -1
+        self._module_deps: list[frozenset[str]] = []
+        self.read_fields: set[str] = set()
+        self.made = 0
+        self.vector_calls = 0
+        self.fallbacks = 0
+        """How many runs were made (corners and samples), for the report and the benchmarks."""
+        self.typical = self.corner(())
+
+    # making runs ----------------------------------------------------------------------------
+    def end(self, path: str, end: str) -> float:
+        s = self.spans[path]
+        return s.lo if end == "min" else s.hi
+
+    def corner(self, assign: Iterable[tuple[str, str]]) -> Run:
+        """The run with each named input at its "min" or "max" end and the rest typical."""
+        key = tuple(sorted(assign))
+        got = self._corners.get(key)
+        if got is None:
+            values = dict(self.base)
+            for p, e in key:
+                values[p] = self.end(p, e)
+            got = self._corners[key] = self._run(values, key, typical=not key)
+        return got
+
+    @property
+    def corners(self) -> dict[Assign, Run]:
+        """Every corner run made so far, by corner."""
+        return self._corners
+
+    def inside(self, corner: dict[str, str], at: dict[str, float]) -> Run:
+        """A kept run: inputs in ``corner`` at their "min"/"max" end, inputs in ``at`` at the
+        given values (inside their tolerance), the rest typical. Its label gives each value."""
+        from reviewer.units import render
+
+        key = (tuple(sorted(corner.items())), tuple(sorted(at.items())))
+        got = self._inside.get(key)
+        if got is None:
+            values = dict(self.base)
+            for p, e in corner.items():
+                values[p] = self.end(p, e)
+            values.update(at)
+            label = tuple(sorted([*corner.items(), *((p, render(x, self.units.get(p, ""), prec=4))
+                                                     for p, x in at.items())]))
+            got = self._inside[key] = self._run(values, label, typical=False)
+        return got
+
+    def point(self, at: dict[str, float], label: Assign = ()) -> Run:
+        """A run with the toleranced inputs in ``at`` at the given values (a sample); not kept."""
+        values = dict(self.base)
+        values.update(at)
+        return self._run(values, label, typical=False)
+
+    def _run(self, values: dict[str, Any], label: Assign, typical: bool) -> Run:
+        self.made += 1
+        ctx = Ctx(self.design, values, self.catalogue, typical=typical)
+        reads = [self._one(module, tree, ctx) for module, tree in zip(self.modules, self._trees)]
+        return Run(label, values, ctx.out, ctx.missing, ctx.notes, tuple(reads), ctx.series)
+
+    def batch(self, points: list[dict[str, float]],
+              labels: list[Assign] | None = None) -> list[Run]:
+        """Runs at many points at once (samples, say): not kept.
+
+        A derive module that sets ``VECTOR = True`` is called once for all points, reading
+        numpy arrays (one element per point) for inputs that differ between points and the
+        scalars of the others; every other module, and an opted-in module that raises on arrays
+        (a plain ``if`` on a value, say), runs once per point as in :meth:`point`. The results
+        are the same either way (tested to 1e-12)."""
+        import numpy as np
+
+        n = len(points)
+        labels = labels if labels is not None else [()] * n
+        ctxs = []
+        for at in points:
+            values = dict(self.base)
+            values.update(at)
+            ctxs.append(Ctx(self.design, values, self.catalogue, typical=False))
+        reads: list[list[frozenset[tuple[str, str]]]] = [[] for _ in range(n)]
+        varying = {p for p in self.tol if len({at.get(p) for at in points}) > 1}
+        for module, tree in zip(self.modules, self._trees):
+            done = False
+            if getattr(module, "VECTOR", False) and n > 1:
+                done = self._vector(module, ctxs, varying, reads, np)
+            if not done:
+                for i, ctx in enumerate(ctxs):
+                    reads[i].append(self._one(module, tree, ctx))
+        self.made += n
+        return [Run(labels[i], c._values, c.out, c.missing, c.notes, tuple(reads[i]), c.series)
+                for i, c in enumerate(ctxs)]
+
+    def _one(self, module: Any, tree: _Node, ctx: Ctx) -> frozenset[tuple[str, str]]:
+        """Run (or replay) one module in one scalar context; what it read."""
+        hit = _lookup(tree, ctx) if self.replay else None
+        if hit is None:
+            ctx.reads = []
+            out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
+            module.derive(ctx)
+            hit = ({k: v for k, v in ctx.out.items() if k not in out0},
+                   {k: v for k, v in ctx.missing.items() if k not in missing0},
+                   {k: v for k, v in ctx.notes.items() if k not in notes0},
+                   frozenset((kind, name) for kind, name, _ in ctx.reads))
+            if self.replay:
+                # a design field that is not toleranced has the same value in every run of
+                # this runner: only the reads that can differ go into the replay tree
+                # nor do reads of what the module published itself (it computes them again)
+                own = hit[0].keys() | hit[1].keys()
+                _insert(tree, [r for r in ctx.reads if (r[1] in self._varies if r[0] == "v"
+                                                        else r[1] not in own)], hit)
+            self.read_fields.update(name for kind, name in hit[3] if kind == "v")
+        else:
+            ctx.out.update(hit[0])
+            ctx.missing.update(hit[1])
+            ctx.notes.update(hit[2])
+        return hit[3]
+
+    def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
+                np: Any) -> bool:
+        """One call of an opted-in module over every context; False to fall back to scalars."""
+        n = len(ctxs)
+        values = dict(ctxs[0]._values)
+        for p in varying:
+            values[p] = np.array([c._values[p] for c in ctxs], dtype=float)
+        first = ctxs[0]
+        out: dict[str, Any] = {}
+        for name in first.out:
+            col = [c.out.get(name, _GONE) for c in ctxs]
+            if any(x is _GONE for x in col):
+                return False
+            if all(_same_value(x, col[0]) for x in col):
+                out[name] = col[0]
+            elif all(_is_number(x) for x in col):
+                out[name] = np.array(col, dtype=float)
+            else:
+                return False
+        if any(c.missing != first.missing for c in ctxs):
+            return False
+        actx = Ctx(self.design, values, self.catalogue, typical=False)
+        actx.out = dict(out)
+        actx.missing = dict(first.missing)
+        before = set(actx.out)
         try:
-            yield
-        except NeedsData as e:
-            for n in names:
-                if n not in self._catalogue:
-                    raise KeyError(f"{n!r} is not declared") from None
-                if n not in self.out:
-                    self.missing[n] = tuple(dict.fromkeys(self.missing.get(n, ()) + e.needs))
+            with np.errstate(all="ignore"):
+                module.derive(actx)
+        except (TypeError, ValueError):  # code that is not array-safe: per-element fallback
+            self.fallbacks += 1
+            return False
+        self.vector_calls += 1
+        new = {k: v for k, v in actx.out.items() if k not in before}
+        got = frozenset((kind, name) for kind, name, _ in actx.reads)
+        self.read_fields.update(name for kind, name in got if kind == "v")
+        for i, c in enumerate(ctxs):
+            for k, v in new.items():
+                if isinstance(v, np.ndarray) and v.shape == (n,):
+                    x = v[i].item()
+                elif isinstance(v, np.ndarray) and v.ndim == 0:
+                    x = v.item()
+                else:
+                    x = v
+                c.out[k] = x
+            c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
+            c.notes.update(actx.notes)
+            reads[i].append(got)
+        return True
 
-    def plot(self, key: str, data: Any) -> None:
-        """Keep data for a picture; kept from the typical run only (check ``ctx.typical``)."""
-        if self.typical:
-            self.series[key] = data
+    # dependencies ---------------------------------------------------------------------------
+    def module_deps(self) -> list[frozenset[str]]:
+        """For each module, the toleranced inputs its results depend on, directly or through
+        the quantities it read from earlier modules, over every corner run made so far."""
+        if self._dep_runs == len(self._corners):
+            return self._module_deps
+        tol = set(self.tol)
+        deps: list[frozenset[str]] = []
+        for i in range(len(self.modules)):
+            mine: set[str] = set()
+            for run in self._corners.values():
+                for kind, name in run.reads[i]:
+                    if kind == "v":
+                        if name in tol:
+                            mine.add(name)
+                    else:
+                        j = self.owner.get(name)
+                        if j is not None and j < i:
+                            mine |= deps[j]
+            deps.append(frozenset(mine))
+        self._module_deps, self._dep_runs = deps, len(self._corners)
+        return deps
+
+    def deps(self, names: Iterable[str]) -> tuple[str, ...]:
+        """The toleranced inputs that the sheet names ``names`` depend on, in design order."""
+        md = self.module_deps()
+        found: set[str] = set()
+        for n in names:
+            if n.startswith("design."):
+                found.add(n[7:])
+            elif n in self.owner:
+                found |= md[self.owner[n]]
+        return tuple(p for p in self.tol if p in found)
+
+
+def _lookup(node: _Node, ctx: Ctx) -> tuple | None:
+    while True:
+        if node.result is not None:
+            return node.result
+        if node.read is None:
+            return None
+        kind, name = node.read
+        try:
+            seen = ctx.peek(kind, name)
+        except KeyError:
+            return None
+        nxt = node.kids.get(_key(seen))
+        if nxt is None:
+            return None
+        node = nxt
+
+
+def _insert(node: _Node, reads: list[tuple[str, str, Any]], result: tuple) -> None:
+    for kind, name, value in reads:
+        if node.result is not None:
+            return
+        if node.read is None:
+            node.read = (kind, name)
+        elif node.read != (kind, name):  # a module that is not deterministic: never replayed
+            return
+        k = _key(value)
+        nxt = node.kids.get(k)
+        if nxt is None:
+            nxt = node.kids[k] = _Node()
+        node = nxt
+    if node.read is None and not node.kids:
+        node.result = result
 
 
 def design_values(design: Any) -> tuple[dict[str, Any], dict[str, Span], dict[str, str]]:
@@ -276,15 +496,17 @@ def _unit_in_annotation(annotation: Any) -> Any:
     return None
 
 
+
+
+
+
 _NAME = re.compile(r"^[a-z][a-z0-9_]*(\.[a-z0-9_]+)+$")
 
 
-def catalogue() -> dict[str, Declared]:
+def catalogue(modules: list[Any] | None = None) -> dict[str, Declared]:
     """Every quantity name the derive modules may publish."""
-    from reviewer.derive import MODULES
-
     out: dict[str, Declared] = {}
-    for module in MODULES:
+    for module in MODULES if modules is None else modules:
         for d in module.QUANTITIES:
             for n in d.names():
                 assert _NAME.match(n), n
@@ -294,116 +516,89 @@ def catalogue() -> dict[str, Declared]:
 
 
 def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None,
-            replay: bool = True) -> Sheet:
+            replay: bool = True, combined: bool = True) -> Sheet:
     """Run every derive module over the design's tolerance corners and return the sheet.
 
-    ``focus`` names the quantities whose extremes matter (those the rules judge); the third
-    pass makes corner runs for these only. None: every published number. With ``replay``, a
-    module whose reads in a run equal those of an earlier run is not run again: its earlier
-    results are reused (the same inputs give the same outputs).
+    ``focus`` names the quantities whose extremes the sheet should show (those the rules judge);
+    the combined-corner runs are made for these only. None: every published number. With
+    ``replay``, a module whose reads in a run equal those of an earlier run is not run again.
+    With ``combined`` False, the sheet has the typical and one-at-a-time runs only: for a caller
+    that judges the rules next and then takes :func:`with_all_runs` (the rules' own corners give
+    the extremes). The sheet's :attr:`Sheet.runner` makes the further corners each rule's own
+    worst-case search needs (:mod:`reviewer.worstcase`).
     """
-    from reviewer.derive import MODULES
+    runner = Runner(design, replay=replay)
+    return sheet_of(runner, max_runs=max_runs, focus=focus, combined=combined)
 
-    cat = catalogue()
-    base, spans, units = design_values(design)
-    tol = [p for p, s in spans.items() if not s.exact]
 
-    replays: list[list[_Replay]] = [[] for _ in MODULES]
+def with_all_runs(sheet: Sheet) -> Sheet:
+    """The sheet again, its quantities' extremes taken over every run its runner has kept (the
+    corners and inside points the rules were judged on, as well as the sheet's own)."""
+    runner = sheet.runner
+    if runner is None:
+        return sheet
+    runs = list(runner.corners.values()) + list(runner._inside.values())
+    return _sheet(runner, runs)
 
-    def run(assign: dict[str, str]) -> Ctx:
-        values = dict(base)
-        for p, end in assign.items():
-            values[p] = spans[p].lo if end == "min" else spans[p].hi
-        ctx = Ctx(design, values, cat, typical=not assign)
-        for module, seen in zip(MODULES, replays):
-            hit = next((r for r in seen if r.matches(ctx)), None) if replay else None
-            if hit is not None:
-                ctx.out.update(hit.out)
-                ctx.missing.update(hit.missing)
-                ctx.notes.update(hit.notes)
-                continue
-            ctx.reads = []
-            out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
-            module.derive(ctx)
-            seen.append(_Replay(
-                tuple(ctx.reads),
-                {k: v for k, v in ctx.out.items() if k not in out0},
-                {k: v for k, v in ctx.missing.items() if k not in missing0},
-                {k: v for k, v in ctx.notes.items() if k not in notes0},
-            ))
-        return ctx
 
-    assigns: list[dict[str, str]] = [{}]
-    ctxs: list[Ctx] = [run({})]
+def sheet_of(runner: Runner, max_runs: int = 400,
+             focus: set[str] | frozenset[str] | None = None, combined: bool = True) -> Sheet:
+    """The sheet of a runner: typical, one-at-a-time ends and per-quantity combined corners."""
+    tol = runner.tol
+    typ = runner.typical
+    runs: list[Run] = [typ]
     for p in tol:
         for end in ("min", "max"):
-            assigns.append({p: end})
-            ctxs.append(run({p: end}))
-
-    typ_out = ctxs[0].out
-    seen = {(): 0}
-    numeric = [n for n, v in typ_out.items() if _is_number(v) and (focus is None or n in focus)]
+            runs.append(runner.corner(((p, end),)))
+    seen = {r.label for r in runs}
+    numeric = [n for n, v in typ.out.items() if _is_number(v) and (focus is None or n in focus)
+               and combined]
     for n in numeric:
+        y0 = typ.out[n]
         for direction in (1, -1):
-            assign: dict[str, str] = {}
+            assign: list[tuple[str, str]] = []
             for i, p in enumerate(tol):
-                y0 = typ_out[n]
-                ylo = ctxs[1 + 2 * i].out.get(n, y0)
-                yhi = ctxs[2 + 2 * i].out.get(n, y0)
+                ylo = runs[1 + 2 * i].out.get(n)
+                yhi = runs[2 + 2 * i].out.get(n)
+                if not (_is_number(ylo) and _is_number(yhi)):
+                    continue
                 best = max((direction * (ylo - y0), "min"), (direction * (yhi - y0), "max"))
-                if _is_number(ylo) and _is_number(yhi) and best[0] > 0:
-                    assign[p] = best[1]
-            key = tuple(sorted(assign.items()))
+                if best[0] > 0:
+                    assign.append((p, best[1]))
+            key = tuple(sorted(assign))
             if key in seen or len(assign) < 2:
-                continue  # a single-input corner was already run in pass 2
-            if len(ctxs) >= max_runs:
+                continue  # a single-input corner was already run
+            if len(runs) >= max_runs:
                 break
-            seen[key] = len(ctxs)
-            assigns.append(assign)
-            ctxs.append(run(assign))
+            seen.add(key)
+            runs.append(runner.corner(key))
+    return _sheet(runner, runs)
 
+
+def _sheet(runner: Runner, runs: list[Run]) -> Sheet:
+    typ = runs[0]
+    cat = runner.catalogue
     quantities: dict[str, Quantity] = {}
-    for n, v in typ_out.items():
+    for n, v in typ.out.items():
         d = cat[n]
-        runs = tuple(c.out.get(n, v) for c in ctxs)
-        lo, hi = _extremes(runs, v)
-        quantities[n] = Quantity(n, d.unit, d.label, v, lo, hi, runs, d.kind, "derived",
-                                 ctxs[0].notes.get(n, ""))
-    for path, value in base.items():
-        name = f"design.{path}"
-        runs = tuple(c._values[path] for c in ctxs)
-        lo, hi = _extremes(runs, value)
-        kind = "flag" if isinstance(value, bool) else ("number" if _is_number(value) else "text")
+        values = tuple(r.out.get(n) for r in runs)
+        lo, hi = _extremes(values, v)
+        quantities[n] = Quantity(n, d.unit, d.label, v, lo, hi, values, d.kind, "derived",
+                                 typ.notes.get(n, ""))
+    for path, value in runner.base.items():
         if value is None or isinstance(value, (list, dict)):
             continue
-        quantities[name] = Quantity(name, units.get(path, ""), path, value, lo, hi, runs, kind,
-                                    "design")
-    missing = {n: Missing(n, needs) for n, needs in ctxs[0].missing.items() if n not in typ_out}
-    for path, value in base.items():
+        name = f"design.{path}"
+        values = tuple(r.values[path] for r in runs)
+        lo, hi = _extremes(values, value)
+        kind = "flag" if isinstance(value, bool) else ("number" if _is_number(value) else "text")
+        quantities[name] = Quantity(name, runner.units.get(path, ""), path, value, lo, hi, values,
+                                    kind, "design")
+    missing = {n: Missing(n, needs) for n, needs in typ.missing.items() if n not in typ.out}
+    for path, value in runner.base.items():
         if value is None:
             missing[f"design.{path}"] = Missing(f"design.{path}", (path,))
-    corners = tuple(tuple(sorted(a.items())) for a in assigns)
-    return Sheet(quantities, missing, corners, ctxs[0].series)
-
-
-@dataclass(frozen=True)
-class _Replay:
-    """One module's results in an earlier run, and everything it read to get them."""
-
-    reads: tuple[tuple[str, str, Any], ...]
-    out: dict[str, Any]
-    missing: dict[str, tuple[str, ...]]
-    notes: dict[str, str]
-
-    def matches(self, ctx: Ctx) -> bool:
-        return all(_same(ctx.peek(kind, name), value) for kind, name, value in self.reads)
-
-
-def _same(a: Any, b: Any) -> bool:
-    try:
-        return bool(a == b)
-    except (TypeError, ValueError):  # values that do not compare plainly: never replay
-        return False
+    return Sheet(quantities, missing, tuple(r.label for r in runs), typ.series, runner)
 
 
 def _is_number(v: Any) -> bool:

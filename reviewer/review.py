@@ -10,7 +10,7 @@ from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
-from reviewer.quantities import Sheet, compute
+from reviewer.quantities import Sheet, compute, with_all_runs
 from reviewer.rulebook.loader import Disabled, Rulebook, load_rulebook
 
 CAUTION = (
@@ -108,8 +108,9 @@ def judged_names(book: Rulebook) -> frozenset[str]:
 def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
-    sheet = compute(design, focus=judged_names(book))
+    sheet = compute(design, focus=judged_names(book), combined=False)
     findings = evaluate(book, sheet, answers_of(design, record))
+    sheet = with_all_runs(sheet)  # the sheet's extremes over every corner the rules were judged on
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
 
 

@@ -22,6 +22,11 @@ def register(sub) -> None:
     add_rule_options(c)
     c.add_argument("--no-passed", action="store_true", help="leave passed checks out (text)")
     c.add_argument("--color", choices=("auto", "always", "never"), default="auto")
+    c.add_argument("--samples", type=int, default=0, metavar="N",
+                   help="also judge every check over N Monte Carlo samples of the tolerances "
+                        "and report its yield")
+    c.add_argument("--seed", type=int, default=None, metavar="S",
+                   help="seed of the samples (default: a fixed seed, so runs repeat exactly)")
 
 
 def run(args: argparse.Namespace) -> int:
@@ -30,12 +35,23 @@ def run(args: argparse.Namespace) -> int:
     from reviewer.errors import InputError
     from reviewer.review import review_file
 
+    from reviewer.progress import progress
+    from reviewer.sampling import DEFAULT_SEED, with_yield
+
     reviews, problems, books = [], [], {}
-    for path in args.designs:
-        try:
-            reviews.append(review_file(path, book=rulebook(args, path, books)))
-        except InputError as e:
-            problems.extend(e.problems)
+    seed = DEFAULT_SEED if args.seed is None else args.seed
+    with progress("reviewing", len(args.designs)) as step:
+        for path in args.designs:
+            try:
+                book = rulebook(args, path, books)
+                r = review_file(path, book=book)
+                if args.samples > 0:
+                    with progress(f"sampling {path.name}", args.samples) as tick:
+                        r = with_yield(r, book, args.samples, seed, tick)
+                reviews.append(r)
+            except InputError as e:
+                problems.extend(e.problems)
+            step()
     if problems:
         raise InputError(problems)
     if args.format == "json":

@@ -17,7 +17,7 @@ import math
 
 from reviewer.derive.bus import power_factor
 from reviewer.physics import band, bus, wire
-from reviewer.quantities import Ctx, NeedsData, declare
+from reviewer.context import Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("band.bus_ripple", "%", "RMS ripple of the DC bus over its lowest mean"),

@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import bootstrap as bp
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("bootstrap.t_on_max", "s", "Longest continuous high-side on-time the modulation asks for"),

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import bus
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("bus.power_factor", "", "Displacement power factor of the load at the bridge"),

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from reviewer.derive.stress import gate_source_range
 from reviewer.physics import gate as gp
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("gate.{side}.vgs_on_min", "V", "On-state gate-source voltage at the lowest bus, after any "

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from reviewer.physics import grounding
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("grounding.edge_time", "s", "Fastest current edge of the bridge (shortest current rise or fall, the same edges as the turn-off overshoot)"),

@@ -11,7 +11,7 @@ class II is assumed. The working and system voltages are the largest the design 
 from __future__ import annotations
 
 from reviewer.physics import spacing
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("isolation.protective_class", "", "Protective class used (IEC 61140)", "text"),

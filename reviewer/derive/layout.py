@@ -7,7 +7,7 @@ import math
 
 from reviewer.derive.bus import power_factor
 from reviewer.physics import bus, spacing
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 PWM = {"spwm_bipolar": "bipolar", "spwm_unipolar": "unipolar", "spwm_level_shifted": "unipolar"}
 

@@ -6,7 +6,7 @@ import math
 
 from reviewer import tables
 from reviewer.physics import band
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("op.bus_min", "V", "Lowest bus voltage in service"),

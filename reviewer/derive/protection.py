@@ -7,7 +7,7 @@ from __future__ import annotations
 from reviewer.derive.band import source_resistance
 from reviewer.derive.bus import power_factor
 from reviewer.physics import bus, protection, wire
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("protection.has_fuse", "", "A fuse is fitted in the supply lead", "flag"),

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from reviewer.physics import gate, grounding
 from reviewer.physics import thermal as tp
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
     ("stress.{side}.overshoot", "V", "Drain-source overshoot at turn-off, L_loop · di/dt over the "

@@ -19,7 +19,7 @@ from reviewer.derive.gate import levels
 from reviewer.physics import gate as gp
 from reviewer.physics import switching as sp
 from reviewer.physics import thermal as tp
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 from reviewer.units import render
 
 OTHER = {"high": "low", "low": "high"}

@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import thermal as tp
-from reviewer.quantities import SIDES, Ctx, NeedsData, declare
+from reviewer.context import SIDES, Ctx, NeedsData, declare
 from reviewer.units import render
 
 TJ_MARGIN = 25.0

@@ -15,7 +15,7 @@ from typing import Any
 
 from reviewer.physics import filter as flt
 from reviewer.physics import waveform as wf
-from reviewer.quantities import Ctx, declare
+from reviewer.context import Ctx, declare
 
 QUANTITIES = declare(
     ("waveform.pwm", "", "Carrier-based (sine-triangle) modulation", "flag"),

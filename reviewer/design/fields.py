@@ -42,7 +42,10 @@ def _validator(unit: str):
 def _serialise(span: Span) -> Any:
     if span.exact:
         return span.typ
-    return {"min": span.lo, "typ": span.typ, "max": span.hi}
+    out = {"min": span.lo, "typ": span.typ, "max": span.hi}
+    if span.sigma is not None:
+        out["sigma"] = span.sigma
+    return out
 
 
 def Q(unit: str) -> Any:  # noqa: N802 - reads as a type in the model

@@ -14,6 +14,7 @@ from datetime import date as _date
 from reviewer.findings import SEVERITIES
 from reviewer.report import common
 from reviewer.review import AID_NOTE, CAUTION, Review
+from reviewer.spread import spread_rows, yield_cell
 
 Pictures = list[tuple[str, str]]
 """(caption, link relative to the report) for each picture written beside the report."""
@@ -96,10 +97,12 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out.append("")
     passed = r.by_outcome("pass")
     if passed:
-        out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin |",
-                "|---|---|---|---|---|"]
+        y = any(f.spread is not None for f in passed)  # a Yield column when samples were drawn
+        out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin |"
+                + (" Yield |" if y else ""), "|---|---|---|---|---|" + ("---|" if y else "")]
         out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.computed(f) or 'holds')} | "
-                f"{_cell(common.limit(f))} | {_cell(common.margin(f))} |" for f in passed]
+                f"{_cell(common.limit(f))} | {_cell(common.margin(f))} |"
+                + (f" {yield_cell(f)} |" if y else "") for f in passed]
         out.append("")
     out += _layout(r)
     if rec.proposals:
@@ -194,6 +197,7 @@ def _findings(r: Review) -> list[str]:
         if f.value is not None:
             rows += [("Computed (worst corner)", common.computed(f)), ("Limit", common.limit(f)),
                      ("Margin", common.margin(f)), ("Worst at", common.corner(f))]
+        rows += [(k.capitalize(), v) for k, v in spread_rows(f)]  # search, yield, sensitivity
         if f.pass_value is not None:
             rows.append(("Passes at", common.pass_text(f)))
         if f.fields:

@@ -25,6 +25,7 @@ from reviewer import record as rec
 from reviewer.findings import Finding
 from reviewer.report import common
 from reviewer.review import Review
+from reviewer.spread import spread_properties
 
 SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
 LEVEL = {"hazard": "error", "risk": "warning", "advice": "note"}
@@ -111,7 +112,7 @@ def to_data(reviews: list[Review]) -> dict[str, Any]:
                 "partialFingerprints": {"findingKey/v1": f.key},
                 "properties": {"key": f.key, "subject": f.subject, "severity": f.severity,
                                "field": first[0], "unit": f.unit, "value": f.value,
-                               "limit": f.limit, "margin": f.margin},
+                               "limit": f.limit, "margin": f.margin, **spread_properties(f)},
             }
             if others:
                 result["relatedLocations"] = [

@@ -7,6 +7,7 @@ from io import StringIO
 
 from reviewer.report import common
 from reviewer.review import AID_NOTE, CAUTION, Review
+from reviewer.spread import spread_rows
 
 PIPED_WIDTH = 100
 """Columns of the report when it does not go to a terminal (a file, a pipe)."""
@@ -97,6 +98,8 @@ def _one(console, r: Review, show_passed: bool) -> None:
             grid.add_row("margin", common.margin(f))
             if f.corner:
                 grid.add_row("worst at", common.corner(f))
+        for label, sentence in spread_rows(f):  # worst-case search, yield, sensitivity
+            grid.add_row(label, sentence)
         if f.question:
             grid.add_row("question", f.question)
             if f.answer_note:

@@ -271,6 +271,13 @@ def load_rulebook(extra: list[Path] | None = None, *, sources: list[Source] | No
     :func:`reviewer.rulebook.discover.house_sources`), placed after the built-in ones.
     """
     house = list(sources or []) + [Source(p, "command line") for p in (extra or [])]
+    from reviewer.rulebook.cache import cached
+
+    return cached(builtin_sources() + house, profile, lambda: _build(house, profile))
+
+
+def _build(house: list[Source], profile: str) -> Rulebook:
+    """Read, layer and compile the built-in rules and ``house`` (uncached)."""
     reads: list[_Read] = []
     problems: list[Problem] = []
     for source in builtin_sources() + house:

@@ -12,6 +12,7 @@ from reviewer.errors import Problem
 from reviewer.report import common
 from reviewer.tui.marks import (ANSWER_WORD, LONG_WORD, decision_mark, key_mark, outcome_key,
                                  outcome_mark, reverse)
+from reviewer.spread import spread_rows
 from reviewer.tui.session import Item, Walk
 
 
@@ -276,8 +277,8 @@ def detail(walk: Walk, item: Item | None) -> Text:
 
 
 def extra_rows(f) -> list[tuple[str, str]]:
-    """Further labelled lines a finding may carry (yield, sensitivity), when it has them."""
-    return []
+    """Further labelled lines a finding carries: worst-case search, yield, sensitivity."""
+    return [(label.capitalize(), sentence) for label, sentence in spread_rows(f)]
 
 
 def problems(items: list[Problem], title: str) -> Text:

@@ -1,0 +1,163 @@
+"""The worst case of each rule, searched on the rule's own margin.
+
+For one rule (one subject), the toleranced design inputs that its value, its limit or its
+``applies`` depend on are found from what the derive modules read (transitively through the
+quantities they read from earlier modules: :meth:`reviewer.quantities.Runner.deps`). Then:
+
+- with at most :data:`VERTEX_INPUTS` such inputs, every vertex of their tolerance box is run
+  (each input at min or max, every other input typical: the rule cannot see the others), next to
+  the typical run and the one-at-a-time ends; the worst margin over these is exact for a margin
+  that is monotonic in each input, and never optimistic about the points it ran;
+- with more, the one-at-a-time runs give the direction of the margin in each input; the
+  combined corner (each input at the end that lowered the margin) is run, then a local search
+  flips one input at a time from it and keeps every flip that lowers the margin, and
+  :data:`SAMPLED_VERTICES` further vertices are drawn at random (seeded by the rule's key, so
+  the same design always gives the same search).
+
+Corners are kept by the runner, so rules with the same inputs share their runs. ``applies`` is
+judged in every run: the rule applies where it applies at any of them.
+"""
+
+from __future__ import annotations
+
+import itertools
+import random
+import zlib
+from typing import Any
+
+import numpy as np
+
+from reviewer.margins import margins, rule_names
+from reviewer.rulebook.loader import Compiled
+from reviewer.spread import NO_INPUTS
+
+VERTEX_INPUTS = 10
+"""Every vertex is run for a rule with at most this many toleranced inputs (2**10 corners)."""
+SAMPLED_VERTICES = 64
+"""Random vertices added to the local search beyond :data:`VERTEX_INPUTS` inputs."""
+ENDS = ("min", "max")
+
+
+def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
+    """The runs rule ``c`` is judged on, and a sentence saying how they were chosen."""
+    deps = runner.deps(rule_names(c))
+    typ = runner.typical
+    runs = [typ]
+    for p in deps:
+        runs.extend(runner.corner(((p, e),)) for e in ENDS)
+    k = len(deps)
+    if k == 0:
+        return runs, NO_INPUTS
+    if k <= VERTEX_INPUTS:
+        for ends in itertools.product(ENDS, repeat=k):
+            runs.append(runner.corner(zip(deps, ends)))
+        method = (f"worst of every vertex of the {k} toleranced input{'s' if k > 1 else ''}"
+                  f" it depends on ({2 ** k} corners)")
+    else:
+        runs, method = _search(c, runner, deps, runs)
+    return _interior(c, runner, deps, runs, method)
+
+
+def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
+              method: str) -> tuple[list[Any], str]:
+    """Where the margin is smallest inside an input's tolerance rather than at an end, search
+    that input by golden section with the others at the worst corner found: a margin that is
+    not monotonic in an input (a ripple current that peaks at a middle modulation index, say)
+    is then not missed. An input is probed (at :data:`LEVELS`, the others typical) where the
+    typical run lies below the chord between its two one-at-a-time ends, the sign of a margin
+    that bends down between them; the yield self-check covers what this misses."""
+    score = margins(c, runs).score
+    worst = runs[int(np.argmin(score))]
+    corner = dict(worst.label) if all(e in ENDS for _, e in worst.label) else {}
+    bent: list[str] = []
+    typical = float(score[0])
+    for i, p in enumerate(deps):
+        s = runner.spans[p]
+        lo, hi = float(score[1 + 2 * i]), float(score[2 + 2 * i])
+        if not np.isfinite([lo, hi, typical]).all() or s.hi <= s.lo:
+            continue  # not applicable or not computable at an end: nothing to bend
+        chord = lo + (s.typ - s.lo) / (s.hi - s.lo) * (hi - lo)
+        if typical >= chord - _tiny(np.array([lo, hi, typical])):
+            continue  # typical on or above the chord of the ends: no dip shows; not probed
+        probe = [runner.inside({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS]
+        ends = [runner.corner(((p, e),)) for e in ENDS]
+        inner = margins(c, probe).score
+        outer = margins(c, ends).score
+        if np.isfinite(inner).any() and np.nanmin(inner) < np.nanmin(outer) - _tiny(outer):
+            bent.append(p)
+    if not bent:
+        return runs, method
+    fixed = {p: e for p, e in corner.items() if p not in bent}
+    at: dict[str, float] = {}
+    for p in bent:
+        s = runner.spans[p]
+
+        def f(t: float) -> float:
+            run = runner.inside(fixed, {**at, p: s.lo + t * (s.hi - s.lo)})
+            runs.append(run)
+            return float(margins(c, [run]).score[0])
+
+        t = _golden(f, [f(x) for x in LEVELS])
+        at[p] = s.lo + t * (s.hi - s.lo)
+    return runs, method + (f", and inside the tolerance of {', '.join(bent)} where the margin "
+                           "is smallest away from its ends (golden-section search)")
+
+
+LEVELS = (0.02, 0.25, 0.5, 0.75, 0.98)
+"""Interior probes of each input, as fractions of its tolerance from min to max (the first and
+last show a margin that falls on leaving an end: a minimum just inside it)."""
+
+
+def _tiny(x: np.ndarray) -> float:
+    finite = x[np.isfinite(x)]
+    return 1e-9 * (float(np.max(np.abs(finite))) if finite.size else 1.0)
+
+
+def _golden(f: Any, probes: list[float], steps: int = 12) -> float:
+    """Minimise ``f`` on [0, 1] near the best of its values at :data:`LEVELS`."""
+    i = int(np.argmin(probes))
+    a, b = (LEVELS[i - 1] if i > 0 else 0.0), (LEVELS[i + 1] if i + 1 < len(LEVELS) else 1.0)
+    g = (5 ** 0.5 - 1) / 2
+    x1, x2 = b - g * (b - a), a + g * (b - a)
+    f1, f2 = f(x1), f(x2)
+    for _ in range(steps):
+        if f1 <= f2:
+            b, x2, f2 = x2, x1, f1
+            x1 = b - g * (b - a)
+            f1 = f(x1)
+        else:
+            a, x1, f1 = x1, x2, f2
+            x2 = a + g * (b - a)
+            f2 = f(x2)
+    return x1 if f1 <= f2 else x2
+
+
+def _search(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any]) -> tuple[list, str]:
+    score = margins(c, runs).score
+    assign: dict[str, str] = {}
+    for i, p in enumerate(deps):
+        lo, hi = score[1 + 2 * i], score[2 + 2 * i]
+        assign[p] = "max" if hi < lo else "min"
+
+    def value(a: dict[str, str]) -> tuple[float, Any]:
+        run = runner.corner(a.items())
+        runs.append(run)
+        return float(margins(c, [run]).score[0]), run
+
+    best, _ = value(assign)
+    for _ in range(3):  # passes of the local search
+        better = False
+        for p in deps:
+            trial = dict(assign)
+            trial[p] = "min" if assign[p] == "max" else "max"
+            s, _ = value(trial)
+            if s < best:
+                best, assign, better = s, trial, True
+        if not better:
+            break
+    rng = random.Random(zlib.crc32(f"{c.rule.id}[{c.subject}]".encode()))
+    for _ in range(SAMPLED_VERTICES):
+        value({p: rng.choice(ENDS) for p in deps})
+    return runs, (f"{len(deps)} toleranced inputs: combined corner from the one-at-a-time "
+                  f"directions, local search by single flips, and {SAMPLED_VERTICES} random "
+                  "vertices")
