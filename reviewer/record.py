@@ -217,10 +217,11 @@ def load(path: str | Path, design: str = "") -> Record:
     p = Path(path)
     if not p.exists():
         return Record(design=design)
-    from reviewer.design.loader import read_toml
+    from reviewer.design.loader import expect_kind, read_file, read_toml
 
-    text = p.read_text(encoding="utf-8")
+    text = read_file(p)
     data = read_toml(text, str(p))
+    expect_kind(data, "record", text, str(p))
     from reviewer.design.tomlpos import key_lines, line_of
 
     lines = key_lines(text)

@@ -5,7 +5,8 @@ from __future__ import annotations
 import argparse
 from pathlib import Path
 
-from reviewer.commands._common import LEVELS, add_rule_options, emit, rulebook, use_color
+from reviewer.commands._common import (LEVELS, add_rule_options, emit, rulebook, use_color,
+                                       writable)
 
 
 def register(sub) -> None:
@@ -25,17 +26,44 @@ def register(sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from reviewer.errors import InputError
+    """Review every design given; every one that loads is reported, even when others do not.
+
+    A review record or a rule file among the files (as a shell pattern like ``*.toml`` picks
+    up) is skipped with one note. The exit status is 2 when any file failed to load (its
+    problems are printed after the report), else 1 or 0 by ``--fail-on``.
+    """
+    import sys
+
+    from reviewer.design.loader import WrongKind
+    from reviewer.errors import InputError, Problem
     from reviewer.review import review_file
 
-    reviews, problems, books = [], [], {}
+    if args.output is not None:
+        writable(args.output, "report")
+    reviews, problems, skipped, books = [], [], [], {}
     for path in args.designs:
         try:
             reviews.append(review_file(path, book=rulebook(args, path, books)))
+        except WrongKind as e:
+            if e.kind == "design":
+                problems.extend(e.problems)
+            else:
+                skipped.append((path, e))
         except InputError as e:
             problems.extend(e.problems)
+    if not reviews:
+        problems.extend(Problem(str(p), e.problems[0].line, "", f"{e.problems[0].message}: "
+                                "nothing to review") for p, e in skipped)
+        raise InputError(problems)
+    for _, e in skipped:
+        print(f"note: {e.note}: skipped", file=sys.stderr)
+    status = _report(args, reviews)
     if problems:
         raise InputError(problems)
+    return status
+
+
+def _report(args: argparse.Namespace, reviews: list) -> int:
     if args.format == "json":
         from reviewer.report import json as view
 

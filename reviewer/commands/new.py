@@ -15,12 +15,13 @@ def register(sub) -> None:
 def run(args: argparse.Namespace) -> int:
     from importlib.resources import files
 
-    from reviewer.atomic import write_text
+    from reviewer.commands._common import write
     from reviewer.errors import InputError, Problem
 
     target: Path = args.file
     if target.exists():
         raise InputError([Problem(str(target), None, "", "already exists; not overwritten")])
-    write_text(target, files("reviewer").joinpath("starter.toml").read_text(encoding="utf-8"))
+    write(target, files("reviewer").joinpath("starter.toml").read_text(encoding="utf-8"),
+          "starter design")
     print(f"wrote {target}: fill it in, then run: reviewer check {target}", file=sys.stderr)
     return 0
