@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
-from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any, Literal
 
@@ -80,7 +79,10 @@ def record_path(design_path: str | Path) -> Path:
 
 
 def now() -> str:
-    return datetime.now(timezone.utc).replace(microsecond=0).isoformat().replace("+00:00", "Z")
+    """The time stamp of a decision: now in UTC, or ``SOURCE_DATE_EPOCH`` (see :mod:`reviewer.clock`)."""
+    from reviewer.clock import now as _now
+
+    return _now()
 
 
 class DecisionError(ValueError):

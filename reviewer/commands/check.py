@@ -15,6 +15,8 @@ def register(sub) -> None:
     c.add_argument("--format", choices=("text", "markdown", "json", "sarif"), default="text")
     c.add_argument("--output", "-o", type=Path,
                    help="write the report to this file (Markdown: pictures are written beside it)")
+    c.add_argument("--base", type=Path, metavar="DIR",
+                   help="SARIF: the folder file URIs are relative to (default: the working folder)")
     c.add_argument("--no-pictures", action="store_true",
                    help="Markdown to a file: do not write the SVG pictures beside it")
     c.add_argument("--fail-on", choices=LEVELS, default=None,
@@ -71,7 +73,7 @@ def _report(args: argparse.Namespace, reviews: list) -> int:
     elif args.format == "sarif":
         from reviewer.report import sarif as view
 
-        text = view.render(reviews)
+        text = view.render(reviews, base=args.base)
     elif args.format == "markdown":
         from reviewer.report import markdown as view
 
