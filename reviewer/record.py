@@ -208,10 +208,75 @@ def to_toml(record: Record) -> str:
     return head + tomli_w.dumps(data)
 
 
-def save(record: Record, path: str | Path) -> None:
+class RecordConflict(DecisionError):
+    """The record changed on disk since it was read, and the change cannot be merged with
+    this one (both changed the same decision, answer or proposal differently, or the file no
+    longer loads). Nothing was written."""
+
+
+def _same(a: Any, b: Any) -> bool:
+    return a == b or repr(a) == repr(b)  # repr: a NaN number equals itself
+
+
+TABLES = ("decisions", "answers", "proposals")
+
+
+def merge(base: Record, ours: Record, theirs: Record) -> tuple[Record, list[str]]:
+    """Three-way merge by finding key (decisions), question (answers) and field (proposals).
+
+    ``base`` is the record both writers started from, ``ours`` this writer's, ``theirs`` the
+    one on disk now. An entry changed (or removed) by one writer only takes that writer's
+    version; one changed by both to the same value is kept; one changed by both differently is a
+    conflict, listed as ``"decision KEY"`` (and ``theirs`` is kept for it).
+    """
+    conflicts: list[str] = []
+    tables: dict[str, dict[str, Any]] = {}
+    for table in TABLES:
+        b, o, t = getattr(base, table), getattr(ours, table), getattr(theirs, table)
+        merged: dict[str, Any] = {}
+        for k in sorted(set(b) | set(o) | set(t)):
+            vb, vo, vt = b.get(k), o.get(k), t.get(k)
+            if _same(vo, vb):
+                v = vt
+            elif _same(vt, vb) or _same(vo, vt):
+                v = vo
+            else:
+                conflicts.append(f"{table[:-1]} {k}")
+                v = vt
+            if v is not None:
+                merged[k] = v
+        tables[table] = merged
+    return Record(ours.design or theirs.design, **tables), conflicts
+
+
+def save(record: Record, path: str | Path, base: Record | None = None) -> Record:
+    """Write ``record`` to ``path`` atomically and return what was written.
+
+    With ``base`` (the record as this writer last read or wrote it), a record changed on disk
+    since by another writer (a second walkthrough, ``reviewer decide`` in another terminal) is
+    never silently overwritten: the two are merged entry by entry (:func:`merge`), and a
+    conflict raises :class:`RecordConflict` with the file untouched. A failed write (no
+    permission, a full disk, an interruption) leaves the previous file as it was.
+    """
     from reviewer.atomic import write_text
 
-    write_text(path, to_toml(record))
+    p = Path(path)
+    if base is not None:
+        try:
+            disk = load(p, record.design or base.design)
+        except InputError as e:
+            raise RecordConflict(f"{p} changed on disk and no longer loads "
+                                 f"({e.problems[0]}); it was not overwritten: fix or remove "
+                                 "it, then decide again") from None
+        if to_toml(disk) != to_toml(base):
+            record, conflicts = merge(base, record, disk)
+            if conflicts:
+                raise RecordConflict(
+                    f"{p} was changed by another writer since it was read, on the same "
+                    f"{', '.join(conflicts)}; nothing was written: review the record again "
+                    "(it now holds the other writer's decision) and decide once more")
+    write_text(p, to_toml(record))
+    return record
 
 
 def load(path: str | Path, design: str = "") -> Record:

@@ -195,8 +195,7 @@ class Walk:
         return rec.load(self.record_file, self.path.name)
 
     def _save(self, record: rec.Record) -> None:
-        rec.save(record, self.record_file)
-        self.record = record
+        self.record = rec.save(record, self.record_file, base=self.record)  # merged, never lost
         self.record_mtime = self.record_file.stat().st_mtime
 
     def design_mtime(self) -> float | None:
@@ -337,7 +336,7 @@ class Walk:
         record = rec.decide(self.record, self._finding_for_record(key), kind, reason,
                             self.reviewer)
         self._save(record)
-        self.snapshot = _restamp(self.snapshot, record)
+        self.snapshot = _restamp(self.snapshot, self.record)
 
     def note(self, key: str, text: str) -> None:
         self._save(rec.note(self.record, key, text, self.reviewer))
