@@ -141,10 +141,18 @@ _TOKENS = re.compile(r'''"""(?:[^\\]|\\.)*?"""|\'\'\'.*?\'\'\'|"(?:[^"\\\n]|\\.)
                      re.DOTALL)
 
 
+_DOTTED = re.compile(r"""(?m)^[ \t]*\[*[ \t]*((?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*')"""
+                     r"""(?:[ \t]*\.[ \t]*(?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*'))+)""")
+
+
 def _too_deep(text: str) -> int | None:
     """The line where brackets outside strings and comments first nest beyond :data:`MAX_DEPTH`,
     or None. A quick scan ahead of the parser (which is recursive): it only bounds the depth,
     the parser still judges the syntax."""
+    if text.count(".") > MAX_DEPTH:  # dotted keys and headers (the parser is quadratic in them)
+        for m in _DOTTED.finditer(text):
+            if m.group(1).count(".") >= MAX_DEPTH:
+                return text.count("\n", 0, m.start()) + 1
     if text.count("[") + text.count("{") <= MAX_DEPTH:
         return None
     depth = 0
@@ -232,7 +240,7 @@ def validate(model: type[BaseModel], data: dict[str, Any], text: str, name: str)
 def _problem(err: dict, model: type[BaseModel], data: Any, lines, name: str) -> Problem:
     loc = tuple(str(x) for x in err["loc"] if not _is_union_tag(x))
     path = ".".join(loc)
-    line = line_of(lines, loc)
+    line = line_of(lines, loc) or 1  # a table not written at all: the file's first line
     kind = err["type"]
     found = err.get("input")
     if kind == "extra_forbidden":
@@ -242,7 +250,7 @@ def _problem(err: dict, model: type[BaseModel], data: Any, lines, name: str) -> 
             msg += f"; this table takes: {', '.join(sorted(allowed))}"
         return Problem(name, line, path, msg)
     if kind == "missing":
-        return Problem(name, line_of(lines, loc[:-1]), path, "required, but not given")
+        return Problem(name, line_of(lines, loc[:-1]) or 1, path, "required, but not given")
     message = err["msg"].removeprefix("Value error, ")
     if kind == "value_error" and RANGE_WORDS in message:
         from reviewer.design import ranges

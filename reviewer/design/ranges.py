@@ -25,10 +25,11 @@ from typing import Any, Iterator
 ABSOLUTE_ZERO_C = -273.15
 """Absolute zero [°C] (SI Brochure, 9th ed., 2019, §2.3.1: 0 K = −273.15 °C)."""
 
-MAX_CARRIER_RATIO = 5000
-"""Largest carrier over output frequency the spectrum engine is asked to synthesise (e.g.
-250 kHz at 50 Hz): its time and memory grow with the number of carrier periods per output period
-(one review at a ratio of 5000 takes about 3 s on a busy 2-core machine, measured)."""
+MAX_CARRIER_RATIO = 2000
+"""Largest carrier over output frequency the spectrum engine is asked to synthesise (100 kHz at
+50 Hz, 120 kHz at 60 Hz): its time and memory grow with the number of carrier periods per output
+period. Measured on the 2-core development machine: a review of the careful example takes about
+as long at a ratio of 2000 as at its own 400, and 2.5 to 3 times as long at 5000."""
 
 MIN_CARRIER_RATIO = 5
 """Smallest carrier over output frequency for sine PWM (the spectrum engine's own floor)."""
