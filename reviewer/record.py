@@ -74,8 +74,52 @@ class Record:
 
 
 def record_path(design_path: str | Path) -> Path:
+    """Where the record of the design at ``design_path`` lives: ``NAME.review.toml`` beside it.
+
+    Two exceptions keep what is shipped pristine: the bundled example designs (in a checkout or
+    an installed package) and designs in a folder this user cannot write keep their records in
+    the user's data folder instead (:func:`data_record_path`), so that walking an example never
+    changes the examples, the checkout or the installed package.
+    """
     p = Path(design_path)
-    return p.with_name(p.stem + ".review.toml")
+    beside = p.with_name(p.stem + ".review.toml")
+    if _shipped(p) or not _writable(p.parent):
+        return data_record_path(p)
+    return beside
+
+
+def data_record_path(design_path: str | Path) -> Path:
+    """The record of a bundled or read-only design in the user's data folder:
+    ``<data>/records/<folder id>/NAME.review.toml`` (the folder id tells designs of the same
+    name in different folders apart)."""
+    import hashlib
+
+    from platformdirs import user_data_dir
+
+    p = Path(design_path)
+    try:
+        folder = str(p.resolve().parent)
+    except OSError:
+        folder = str(p.parent)
+    tag = "examples" if _shipped(p) else hashlib.sha256(folder.encode()).hexdigest()[:12]
+    return Path(user_data_dir("bridge-reviewer", appauthor=False)) / "records" / tag / (
+        p.stem + ".review.toml")
+
+
+def _shipped(design: Path) -> bool:
+    from reviewer.paths import examples_dir
+
+    try:
+        return design.resolve().parent == examples_dir().resolve()
+    except OSError:
+        return False
+
+
+def _writable(folder: Path) -> bool:
+    import os
+
+    target = folder if str(folder) else Path(".")
+    return not target.is_dir() or os.access(target, os.W_OK)
 
 
 def now() -> str:
@@ -275,6 +319,7 @@ def save(record: Record, path: str | Path, base: Record | None = None) -> Record
                     f"{p} was changed by another writer since it was read, on the same "
                     f"{', '.join(conflicts)}; nothing was written: review the record again "
                     "(it now holds the other writer's decision) and decide once more")
+    p.parent.mkdir(parents=True, exist_ok=True)  # the user's data folder may not exist yet
     write_text(p, to_toml(record))
     return record
 

@@ -70,11 +70,11 @@ def expect_kind(data: dict[str, Any], want: str, text: str, name: str) -> None:
     if kind is not None and kind != want:
         lines = key_lines(text)
         where = line_of(lines, ("format",)) or line_of(lines, ("design",)) or 1
+        what = WHAT[kind]
         if kind == "record" and isinstance(data.get("design"), str) and data["design"]:
-            note = f"{name} is the review record of {data['design']}"
-        else:
-            note = f"{name} is {WHAT[kind]}"
-        message = f"this is {WHAT[kind]}, not {WHAT[want]}"
+            what = f"the review record of {data['design']}"
+        note = f"{name} is {what}"
+        message = f"this is {what}, not {WHAT[want]}"
         raise WrongKind([Problem(name, where, "", message)], kind, note)
     marker = data.get("format")
     if want != "record" and isinstance(marker, str) and KINDS.get(marker) == want:
@@ -122,10 +122,9 @@ def read_toml(text: str, name: str) -> dict[str, Any]:
     if len(text) > MAX_BYTES:
         raise InputError([Problem(name, text[:MAX_BYTES].count("\n") + 1, "",
                                   f"the text is longer than {MAX_BYTES} characters; refused")])
-    deep = _too_deep(text)
-    if deep is not None:
-        raise InputError([Problem(name, deep, "", f"nested more than {MAX_DEPTH} levels deep "
-                                  "(arrays or inline tables within each other); refused")])
+    refused = _prescan(text, name)
+    if refused is not None:
+        raise InputError([refused])
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as e:
@@ -145,23 +144,34 @@ _DOTTED = re.compile(r"""(?m)^[ \t]*\[*[ \t]*((?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n
                      r"""(?:[ \t]*\.[ \t]*(?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*'))+)""")
 
 
-def _too_deep(text: str) -> int | None:
-    """The line where brackets outside strings and comments first nest beyond :data:`MAX_DEPTH`,
-    or None. A quick scan ahead of the parser (which is recursive): it only bounds the depth,
-    the parser still judges the syntax."""
-    if text.count(".") > MAX_DEPTH:  # dotted keys and headers (the parser is quadratic in them)
+def _prescan(text: str, name: str) -> Problem | None:
+    """A quick scan ahead of the parser (which is recursive, and quadratic in dotted keys): the
+    first place where keys or brackets outside strings and comments nest beyond
+    :data:`MAX_DEPTH`, or where more than ``2 × MAX_ENTRIES`` arrays and tables are opened, as a
+    located problem; None when there is none. The parser still judges the syntax."""
+    def at(pos: int) -> int:
+        return text.count("\n", 0, pos) + 1
+
+    deep = f"nested more than {MAX_DEPTH} levels deep"
+    if text.count(".") > MAX_DEPTH:
         for m in _DOTTED.finditer(text):
             if m.group(1).count(".") >= MAX_DEPTH:
-                return text.count("\n", 0, m.start()) + 1
+                return Problem(name, at(m.start()), "", f"{deep} (a dotted key or table name of "
+                               f"{m.group(1).count('.') + 1} parts); refused")
     if text.count("[") + text.count("{") <= MAX_DEPTH:
         return None
-    depth = 0
+    depth = opened = 0
     for m in _TOKENS.finditer(text):
         tok = m.group()
         if tok in ("[", "{"):
             depth += 1
+            opened += 1
             if depth > MAX_DEPTH:
-                return text.count("\n", 0, m.start()) + 1
+                return Problem(name, at(m.start()), "", f"{deep} (arrays or inline tables "
+                               "within each other); refused")
+            if opened > 2 * MAX_ENTRIES:
+                return Problem(name, at(m.start()), "", f"more than {2 * MAX_ENTRIES} arrays and "
+                               "tables in one file; refused")
         elif tok in ("]", "}"):
             depth = max(0, depth - 1)
     return None
