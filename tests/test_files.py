@@ -77,6 +77,12 @@ def test_a_design_given_as_a_rule_file_or_a_record_says_what_it_is(tmp_path, cap
     assert main(["check", str(design), "--rules", str(rules)]) == 2
     err = capsys.readouterr().err
     assert "this is a design, not a review record" in err and "bridge.review.toml:" in err
+    record = tmp_path / "other.review.toml"
+    record.write_text('format = "bridge-reviewer/record"\nversion = 1\ndesign = "x.toml"\n')
+    rec.record_path(design).unlink()
+    assert main(["check", str(design), "--rules", str(record)]) == 2  # an error, not a skip
+    err = capsys.readouterr().err
+    assert "this is the review record of x.toml, not a rule file" in err and "note:" not in err
 
 
 @pytest.mark.parametrize("argv", [

@@ -47,12 +47,13 @@ def run(args: argparse.Namespace) -> int:
         try:
             reviews.append(review_file(path, book=rulebook(args, path, books)))
         except WrongKind as e:
-            if e.kind == "design":
-                problems.extend(e.problems)
-            else:
+            if e.want == "design":  # the file given is no design: skip it
                 skipped.append((path, e))
+            else:  # a rule file or a record that is something else: an error
+                problems.extend(e.problems)
         except InputError as e:
             problems.extend(e.problems)
+    problems = list(dict.fromkeys(problems))  # a bad rule file: said once, not per design
     if not reviews:
         problems.extend(Problem(str(p), e.problems[0].line, "", f"{e.problems[0].message}: "
                                 "nothing to review") for p, e in skipped)

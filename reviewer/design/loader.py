@@ -42,12 +42,14 @@ WHAT = {"design": "a design", "record": "a review record", "rules": "a rule file
 
 class WrongKind(InputError):
     """A file of another kind (a record or a rule file given as a design, ...): ``kind`` says
-    which, ``note`` says it in a sentence the command can print instead of an error."""
+    what it is, ``want`` what was expected, ``note`` says it in a sentence the command can print
+    instead of an error."""
 
-    def __init__(self, problems: list[Problem], kind: str, note: str):
+    def __init__(self, problems: list[Problem], kind: str, note: str, want: str = ""):
         super().__init__(problems)
         self.kind = kind
         self.note = note
+        self.want = want
 
 
 def kind_of(data: dict[str, Any]) -> str | None:
@@ -75,7 +77,7 @@ def expect_kind(data: dict[str, Any], want: str, text: str, name: str) -> None:
             what = f"the review record of {data['design']}"
         note = f"{name} is {what}"
         message = f"this is {what}, not {WHAT[want]}"
-        raise WrongKind([Problem(name, where, "", message)], kind, note)
+        raise WrongKind([Problem(name, where, "", message)], kind, note, want)
     marker = data.get("format")
     if want != "record" and isinstance(marker, str) and KINDS.get(marker) == want:
         del data["format"]
