@@ -414,7 +414,7 @@ class Walk:
         return t
 
     def default_export(self) -> Path:
-        return self.path.with_name(self.path.stem + ".review.md")
+        return self.record_file.with_suffix(".md")  # where the record is kept
 
 
 def _restamp(snap: Snapshot, record: rec.Record) -> Snapshot:
