@@ -142,6 +142,8 @@ BY_PATH: dict[str, Range] = {
     "switch.*.v_plateau": _r("V", 0.0, 1e4, lo_open=True),
     "drive.*.zener": _r("V", 0.0, 1e4, lo_open=True),
     "bootstrap.supply": _r("V", 0.0, 1e4, lo_open=True),
+    "capacitors.esr": _r("Ω", 0.0, 1e6, lo_open=True, note="an ESR of 0 would hide the "
+                         "capacitors' heating"),
     "fuse.rating": _r("A", 0.0, 1e7, lo_open=True),
     "wiring.length": _r("m", 0.0, 1e5, lo_open=True),
     "isolation.altitude": _r("m", 0.0, 2e4),
