@@ -123,7 +123,7 @@ def _writable(folder: Path) -> bool:
 
 
 def now() -> str:
-    """The time stamp of a decision: now in UTC, or ``SOURCE_DATE_EPOCH`` (see :mod:`reviewer.clock`)."""
+    """The time stamp of a decision: now in UTC, or ``SOURCE_DATE_EPOCH`` (:mod:`reviewer.clock`)."""
     from reviewer.clock import now as _now
 
     return _now()

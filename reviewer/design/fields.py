@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from typing import Annotated, Any, Literal
 
-from pydantic import BeforeValidator, Field, PlainSerializer, PlainValidator, WithJsonSchema
+from pydantic import Field, PlainSerializer, PlainValidator, WithJsonSchema
 
 from reviewer.design.ranges import Range, for_unit, out_of_range, show
 from reviewer.units import UNITS, Span, UnitError, expected_text, parse_span

@@ -102,7 +102,8 @@ def read_file(path: str | Path) -> str:
     except IsADirectoryError:
         raise InputError([Problem(str(p), None, "", "is a folder, not a file")]) from None
     except OSError as e:
-        raise InputError([Problem(str(p), None, "", f"cannot be read: {e.strerror or e}")]) from None
+        raise InputError([Problem(str(p), None, "", f"cannot be read: {e.strerror or e}")]
+                         ) from None
     if len(raw) > MAX_BYTES:
         line = raw[:MAX_BYTES].count(b"\n") + 1
         raise InputError([Problem(str(p), line, "", f"the file is larger than {MAX_BYTES} bytes "
@@ -138,8 +139,11 @@ def read_toml(text: str, name: str) -> dict[str, Any]:
     return data
 
 
-_TOKENS = re.compile(r'''"""(?:[^\\]|\\.)*?"""|\'\'\'.*?\'\'\'|"(?:[^"\\\n]|\\.)*"|'[^'\n]*'|#[^\n]*|[\[\]{}]''',
-                     re.DOTALL)
+_TOKENS = re.compile(
+    r'"""(?:[^\\]|\\.)*?"""' r"|'''.*?'''"  # multi-line strings
+    r'|"(?:[^"\\\n]|\\.)*"' r"|'[^'\n]*'"  # one-line strings
+    r'|#[^\n]*|[\[\]{}]',  # comments, brackets
+    re.DOTALL)
 
 
 _DOTTED = re.compile(r"""(?m)^[ \t]*\[*[ \t]*((?:[A-Za-z0-9_-]+|"[^"\n]*"|'[^'\n]*')"""

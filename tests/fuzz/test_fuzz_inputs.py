@@ -78,10 +78,11 @@ FLOATS = st.floats(allow_nan=True, allow_infinity=True).map(_toml_float)
 WORDS = st.text(alphabet=st.characters(codec="utf-8", exclude_categories=["Cs"]),
                 max_size=30).map(lambda s: '"' + s.replace("\\", "\\\\").replace('"', '\\"')
                                  .replace("\n", "\\n").replace("\r", "\\r") + '"')
+UNIT_WORDS = ["V", "A", "Hz", "s", "Ω", "F", "H", "%", "°C"]
 VALUES = st.one_of(NASTY, FLOATS, WORDS,
                    st.integers(min_value=-(10 ** 30), max_value=10 ** 30).map(str),
                    st.floats(min_value=-1e6, max_value=1e6).map(
-                       lambda x: f'"{x:g} {["V", "A", "Hz", "s", "Ω", "F", "H", "%", "°C"][int(abs(x)) % 9]}"'))
+                       lambda x: f'"{x:g} {UNIT_WORDS[int(abs(x)) % 9]}"'))
 
 
 def _value_lines(text: str) -> list[int]:
