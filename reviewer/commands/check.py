@@ -36,16 +36,21 @@ def run(args: argparse.Namespace) -> int:
     """
     import sys
 
+    from reviewer import record as rec
+    from reviewer.design import load_design
     from reviewer.design.loader import WrongKind
     from reviewer.errors import InputError, Problem
-    from reviewer.review import review_file
+    from reviewer.review import review_design
 
     if args.output is not None:
         writable(args.output, "report")
     reviews, problems, skipped, books = [], [], [], {}
     for path in args.designs:
-        try:
-            reviews.append(review_file(path, book=rulebook(args, path, books)))
+        try:  # the design first: a bad one is refused before any rule is read
+            design = load_design(path)
+            book = rulebook(args, path, books)
+            record = rec.load(rec.record_path(path), Path(path).name)
+            reviews.append(review_design(design, str(path), book, record))
         except WrongKind as e:
             if e.want == "design":  # the file given is no design: skip it
                 skipped.append((path, e))
