@@ -148,10 +148,12 @@ def test_examples_copy_and_records_of_bundled_designs(tmp_path, capsys, monkeypa
     assert (target / "careful_12v_sine.toml").read_text() == "# mine\n"
     capsys.readouterr()
 
+    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path / "data"))  # other tests walk it too
     bundled = BUNDLED_EXAMPLES / "naive_bench_pchannel.toml"
     before = sorted(p.name for p in BUNDLED_EXAMPLES.iterdir())
     where = rec.record_path(bundled)
     assert where.parent != BUNDLED_EXAMPLES and "records" in where.parts
+    assert where.is_relative_to(tmp_path / "data")
     assert main(["decide", str(bundled), "timing.no-dead-time", "--as", "will_change",
                  "--no-house-rules"]) == 0
     assert where.is_file() and sorted(p.name for p in BUNDLED_EXAMPLES.iterdir()) == before
