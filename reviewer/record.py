@@ -123,7 +123,7 @@ def _writable(folder: Path) -> bool:
 
 
 def now() -> str:
-    """The time stamp of a decision: now in UTC, or ``SOURCE_DATE_EPOCH`` (:mod:`reviewer.clock`)."""
+    """A decision's time stamp: now in UTC, or ``SOURCE_DATE_EPOCH`` (:mod:`reviewer.clock`)."""
     from reviewer.clock import now as _now
 
     return _now()
@@ -339,29 +339,56 @@ def load(path: str | Path, design: str = "") -> Record:
     lines = key_lines(text)
     problems: list[Problem] = []
     if data.get("format") != FORMAT:
-        problems.append(Problem(str(p), line_of(lines, ("format",)), "format",
+        problems.append(Problem(str(p), (line_of(lines, ("format",)) or 1), "format",
                                 f"expected {FORMAT!r}, found {data.get('format')!r}"))
     if data.get("version") != VERSION:
-        problems.append(Problem(str(p), line_of(lines, ("version",)), "version",
+        problems.append(Problem(str(p), (line_of(lines, ("version",)) or 1), "version",
                                 f"expected {VERSION} (this tool's record version), found "
                                 f"{data.get('version')!r}"))
     tables = {"decision": (Decision, "key"), "answer": (Answer, "question"),
               "proposal": (Proposal, "field")}
     out: dict[str, dict[str, Any]] = {k: {} for k in tables}
     for name, (cls, key) in tables.items():
-        for i, row in enumerate(data.get(name, [])):
+        rows = data.get(name, [])
+        if not isinstance(rows, list):
+            problems.append(Problem(str(p), line_of(lines, (name,)) or 1, name,
+                                    f"expected [[{name}]] tables, found {type(rows).__name__}"))
+            continue
+        for i, row in enumerate(rows):
             where = (name, str(i))
             try:
+                if not isinstance(row, dict):
+                    raise TypeError(f"expected a table, found {type(row).__name__}")
                 item = cls(**row)
+                _typed(item)
             except TypeError as e:
-                problems.append(Problem(str(p), line_of(lines, where), f"{name}[{i}]",
+                problems.append(Problem(str(p), (line_of(lines, where) or 1), f"{name}[{i}]",
                                         f"not a valid {name}: {e}"))
                 continue
             if name == "decision" and item.kind not in KINDS:
-                problems.append(Problem(str(p), line_of(lines, where + ("kind",)),
-                                        f"{name}[{i}].kind", f"expected one of {KINDS}, found {item.kind!r}"))
+                problems.append(Problem(str(p), (line_of(lines, where + ("kind",)) or 1),
+                                        f"{name}[{i}].kind",
+                                        f"expected one of {KINDS}, found {item.kind!r}"))
                 continue
             out[name][getattr(item, key)] = item
+    named = data.get("design", design)
+    if not isinstance(named, str):
+        problems.append(Problem(str(p), line_of(lines, ("design",)) or 1, "design",
+                                f"expected the design's file name, found {named!r}"))
     if problems:
         raise InputError(problems)
-    return Record(data.get("design", design), out["decision"], out["answer"], out["proposal"])
+    return Record(named, out["decision"], out["answer"], out["proposal"])
+
+
+def _typed(item: Any) -> None:
+    """TypeError unless every field of a record entry has its declared type (text, or a
+    number for a decision's value and limit)."""
+    numbers = ("value", "limit") if isinstance(item, Decision) else ()
+    for name, value in vars(item).items():
+        if name in numbers:
+            ok = value is None or (isinstance(value, (int, float)) and not isinstance(value, bool))
+        else:
+            ok = isinstance(value, str)
+        if not ok:
+            what = "a number" if name in numbers else "a text"
+            raise TypeError(f"{name} = {value!r} is not {what}")

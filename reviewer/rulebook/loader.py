@@ -251,7 +251,7 @@ def _locate(file: str, lines: dict, where: tuple[str, ...], rule_id: str,
     for message, key in found:
         path = where + ((key,) if key else ())
         label = f"{where[0]}[{where[1]}] ({rule_id})" + (f".{key}" if key else "")
-        out.append(Problem(file, line_of(lines, path), label, message))
+        out.append(Problem(file, line_of(lines, path) or 1, label, message))
     return out
 
 

@@ -287,3 +287,58 @@ def test_mutated_rule_files(text):
     check(design, "--rules", str(rules))
     o = run("rules", "lint", str(rules))
     judge(o)
+
+
+# --- review records ------------------------------------------------------------------------
+RECORD = """format = "bridge-reviewer/record"
+version = 1
+design = "design.toml"
+
+[[decision]]
+key = "timing.no-dead-time"
+kind = "accepted"
+reason = "bench only"
+reviewer = "ana"
+at = "2026-01-01T00:00:00Z"
+outcome = "fail"
+value = 0.0
+limit = 1e-07
+unit = "s"
+
+[[answer]]
+question = "checklist.gate-loop"
+answer = "yes"
+
+[[proposal]]
+field = "timing.dead_time"
+value = "800 ns"
+"""
+
+
+@st.composite
+def record_mutants(draw) -> str:
+    lines = RECORD.splitlines()
+    for _ in range(draw(st.integers(1, 3))):
+        values = _value_lines("\n".join(lines))
+        kind = draw(st.sampled_from(["value", "value", "delete", "duplicate", "header"]))
+        if kind == "value" and values:
+            i = draw(st.sampled_from(values))
+            lines[i] = f"{lines[i].split('=', 1)[0]}= {draw(VALUES)}"
+        elif kind == "delete" and lines:
+            del lines[draw(st.integers(0, len(lines) - 1))]
+        elif kind == "duplicate" and values:
+            i = draw(st.sampled_from(values))
+            lines.insert(i, lines[i])
+        else:
+            lines.insert(draw(st.integers(0, len(lines))),
+                         draw(st.sampled_from(["[[decision]]", "[decision]", "[[answer]]",
+                                               "[design]", "[[rule]]"])))
+    return "\n".join(lines) + "\n"
+
+
+@given(record_mutants())
+def test_mutated_records(text):
+    """A broken record beside a design: the check reviews or names the record's problem."""
+    design = write(DESIGNS["naive_bench_pchannel"], "design.toml")
+    (design.parent / "design.review.toml").write_text(text, encoding="utf-8")
+    check(design)
