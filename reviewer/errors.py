@@ -17,7 +17,15 @@ class Problem:
     def __str__(self) -> str:
         where = f"{self.file}:{self.line}" if self.line else self.file
         field = f" {self.path}:" if self.path else ""
-        return f"{where}:{field} {self.message}"
+        return one_line(f"{where}:{field} {self.message}")
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks and other control characters escaped (``\\x1e``), so that an
+    error about a strange key is still one line starting ``error:``."""
+    if text.isprintable():
+        return text
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
 class InputError(Exception):

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, replace
-from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any, Literal
 
@@ -78,12 +77,59 @@ class Record:
 
 
 def record_path(design_path: str | Path) -> Path:
+    """Where the record of the design at ``design_path`` lives: ``NAME.review.toml`` beside it.
+
+    Two exceptions keep what is shipped pristine: the bundled example designs (in a checkout or
+    an installed package) and designs in a folder this user cannot write keep their records in
+    the user's data folder instead (:func:`data_record_path`), so that walking an example never
+    changes the examples, the checkout or the installed package.
+    """
     p = Path(design_path)
-    return p.with_name(p.stem + ".review.toml")
+    beside = p.with_name(p.stem + ".review.toml")
+    if _shipped(p) or not _writable(p.parent):
+        return data_record_path(p)
+    return beside
+
+
+def data_record_path(design_path: str | Path) -> Path:
+    """The record of a bundled or read-only design in the user's data folder:
+    ``<data>/records/<folder id>/NAME.review.toml`` (the folder id tells designs of the same
+    name in different folders apart)."""
+    import hashlib
+
+    from platformdirs import user_data_dir
+
+    p = Path(design_path)
+    try:
+        folder = str(p.resolve().parent)
+    except OSError:
+        folder = str(p.parent)
+    tag = "examples" if _shipped(p) else hashlib.sha256(folder.encode()).hexdigest()[:12]
+    return Path(user_data_dir("bridge-reviewer", appauthor=False)) / "records" / tag / (
+        p.stem + ".review.toml")
+
+
+def _shipped(design: Path) -> bool:
+    from reviewer.paths import examples_dir
+
+    try:
+        return design.resolve().parent == examples_dir().resolve()
+    except OSError:
+        return False
+
+
+def _writable(folder: Path) -> bool:
+    import os
+
+    target = folder if str(folder) else Path(".")
+    return not target.is_dir() or os.access(target, os.W_OK)
 
 
 def now() -> str:
-    return datetime.now(timezone.utc).replace(microsecond=0).isoformat().replace("+00:00", "Z")
+    """A decision's time stamp: now in UTC, or ``SOURCE_DATE_EPOCH`` (:mod:`reviewer.clock`)."""
+    from reviewer.clock import now as _now
+
+    return _now()
 
 
 class DecisionError(ValueError):
@@ -209,10 +255,76 @@ def to_toml(record: Record) -> str:
     return head + tomli_w.dumps(data)
 
 
-def save(record: Record, path: str | Path) -> None:
+class RecordConflict(DecisionError):
+    """The record changed on disk since it was read, and the change cannot be merged with
+    this one (both changed the same decision, answer or proposal differently, or the file no
+    longer loads). Nothing was written."""
+
+
+def _same(a: Any, b: Any) -> bool:
+    return a == b or repr(a) == repr(b)  # repr: a NaN number equals itself
+
+
+TABLES = ("decisions", "answers", "proposals")
+
+
+def merge(base: Record, ours: Record, theirs: Record) -> tuple[Record, list[str]]:
+    """Three-way merge by finding key (decisions), question (answers) and field (proposals).
+
+    ``base`` is the record both writers started from, ``ours`` this writer's, ``theirs`` the
+    one on disk now. An entry changed (or removed) by one writer only takes that writer's
+    version; one changed by both to the same value is kept; one changed by both differently is a
+    conflict, listed as ``"decision KEY"`` (and ``theirs`` is kept for it).
+    """
+    conflicts: list[str] = []
+    tables: dict[str, dict[str, Any]] = {}
+    for table in TABLES:
+        b, o, t = getattr(base, table), getattr(ours, table), getattr(theirs, table)
+        merged: dict[str, Any] = {}
+        for k in sorted(set(b) | set(o) | set(t)):
+            vb, vo, vt = b.get(k), o.get(k), t.get(k)
+            if _same(vo, vb):
+                v = vt
+            elif _same(vt, vb) or _same(vo, vt):
+                v = vo
+            else:
+                conflicts.append(f"{table[:-1]} {k}")
+                v = vt
+            if v is not None:
+                merged[k] = v
+        tables[table] = merged
+    return Record(ours.design or theirs.design, **tables), conflicts
+
+
+def save(record: Record, path: str | Path, base: Record | None = None) -> Record:
+    """Write ``record`` to ``path`` atomically and return what was written.
+
+    With ``base`` (the record as this writer last read or wrote it), a record changed on disk
+    since by another writer (a second walkthrough, ``reviewer decide`` in another terminal) is
+    never silently overwritten: the two are merged entry by entry (:func:`merge`), and a
+    conflict raises :class:`RecordConflict` with the file untouched. A failed write (no
+    permission, a full disk, an interruption) leaves the previous file as it was.
+    """
     from reviewer.atomic import write_text
 
-    write_text(path, to_toml(record))
+    p = Path(path)
+    if base is not None:
+        try:
+            disk = load(p, record.design or base.design)
+        except InputError as e:
+            raise RecordConflict(f"{p} changed on disk and no longer loads "
+                                 f"({e.problems[0]}); it was not overwritten: fix or remove "
+                                 "it, then decide again") from None
+        if to_toml(disk) != to_toml(base):
+            record, conflicts = merge(base, record, disk)
+            if conflicts:
+                raise RecordConflict(
+                    f"{p} was changed by another writer since it was read, on the same "
+                    f"{', '.join(conflicts)}; nothing was written: review the record again "
+                    "(it now holds the other writer's decision) and decide once more")
+    p.parent.mkdir(parents=True, exist_ok=True)  # the user's data folder may not exist yet
+    write_text(p, to_toml(record))
+    return record
 
 
 def load(path: str | Path, design: str = "") -> Record:
@@ -220,42 +332,70 @@ def load(path: str | Path, design: str = "") -> Record:
     p = Path(path)
     if not p.exists():
         return Record(design=design)
-    from reviewer.design.loader import read_toml
+    from reviewer.design.loader import expect_kind, read_file, read_toml
 
-    text = p.read_text(encoding="utf-8")
+    text = read_file(p)
     data = read_toml(text, str(p))
+    expect_kind(data, "record", text, str(p))
     from reviewer.design.tomlpos import key_lines, line_of
 
     lines = key_lines(text)
     problems: list[Problem] = []
     if data.get("format") != FORMAT:
-        problems.append(Problem(str(p), line_of(lines, ("format",)), "format",
+        problems.append(Problem(str(p), (line_of(lines, ("format",)) or 1), "format",
                                 f"expected {FORMAT!r}, found {data.get('format')!r}"))
     if data.get("version") != VERSION:
-        problems.append(Problem(str(p), line_of(lines, ("version",)), "version",
+        problems.append(Problem(str(p), (line_of(lines, ("version",)) or 1), "version",
                                 f"expected {VERSION} (this tool's record version), found "
                                 f"{data.get('version')!r}"))
     tables = {"decision": (Decision, "key"), "answer": (Answer, "question"),
               "proposal": (Proposal, "field")}
     out: dict[str, dict[str, Any]] = {k: {} for k in tables}
     for name, (cls, key) in tables.items():
-        for i, row in enumerate(data.get(name, [])):
+        rows = data.get(name, [])
+        if not isinstance(rows, list):
+            problems.append(Problem(str(p), line_of(lines, (name,)) or 1, name,
+                                    f"expected [[{name}]] tables, found {type(rows).__name__}"))
+            continue
+        for i, row in enumerate(rows):
             where = (name, str(i))
             try:
+                if not isinstance(row, dict):
+                    raise TypeError(f"expected a table, found {type(row).__name__}")
                 item = cls(**row)
+                _typed(item)
             except TypeError as e:
-                problems.append(Problem(str(p), line_of(lines, where), f"{name}[{i}]",
+                problems.append(Problem(str(p), (line_of(lines, where) or 1), f"{name}[{i}]",
                                         f"not a valid {name}: {e}"))
                 continue
             if name == "decision" and item.kind not in KINDS:
-                problems.append(Problem(str(p), line_of(lines, where + ("kind",)),
-                                        f"{name}[{i}].kind", f"expected one of {KINDS}, found {item.kind!r}"))
+                problems.append(Problem(str(p), (line_of(lines, where + ("kind",)) or 1),
+                                        f"{name}[{i}].kind",
+                                        f"expected one of {KINDS}, found {item.kind!r}"))
                 continue
             if name == "decision":  # a renamed rule's old id names its finding still
                 from reviewer.aliases import current_key
 
                 item = replace(item, key=current_key(item.key))
             out[name][getattr(item, key)] = item
+    named = data.get("design", design)
+    if not isinstance(named, str):
+        problems.append(Problem(str(p), line_of(lines, ("design",)) or 1, "design",
+                                f"expected the design's file name, found {named!r}"))
     if problems:
         raise InputError(problems)
-    return Record(data.get("design", design), out["decision"], out["answer"], out["proposal"])
+    return Record(named, out["decision"], out["answer"], out["proposal"])
+
+
+def _typed(item: Any) -> None:
+    """TypeError unless every field of a record entry has its declared type (text, or a
+    number for a decision's value and limit)."""
+    numbers = ("value", "limit") if isinstance(item, Decision) else ()
+    for name, value in vars(item).items():
+        if name in numbers:
+            ok = value is None or (isinstance(value, (int, float)) and not isinstance(value, bool))
+        else:
+            ok = isinstance(value, str)
+        if not ok:
+            what = "a number" if name in numbers else "a text"
+            raise TypeError(f"{name} = {value!r} is not {what}")

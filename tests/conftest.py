@@ -8,13 +8,48 @@ from pathlib import Path
 import pytest
 
 ROOT = Path(__file__).resolve().parents[1]
-EXAMPLES = ROOT / "example_designs"
+BUNDLED_EXAMPLES = ROOT / "example_designs"
+"""The bundled examples in the checkout: read only by :func:`_pristine_examples`, so that a
+record or an export a user left beside them (after a walkthrough) never reaches a test."""
+
+
+def _pristine_examples() -> Path:
+    """A copy of the bundled example designs (designs and house rules only, never a review
+    record or an export) in a temporary folder of its own, removed when the tests end."""
+    import atexit
+    import shutil
+    import tempfile
+
+    top = Path(tempfile.mkdtemp(prefix="reviewer-tests-"))
+    atexit.register(shutil.rmtree, top, ignore_errors=True)
+    dest = top / "example_designs"
+
+    def keep(folder: str, names: list[str]) -> list[str]:
+        return [n for n in names if (Path(folder) / n).is_file()
+                and (".review." in n or not n.endswith(".toml"))]
+
+    shutil.copytree(BUNDLED_EXAMPLES, dest, ignore=keep)
+    return dest
+
+
+EXAMPLES = _pristine_examples()
+"""The example designs the tests use: a pristine copy (see :func:`_pristine_examples`)."""
 
 os.environ.pop("NO_COLOR", None)
+# The tests never see the user's own house rules or data folder.
+_HOME = EXAMPLES.parent / "home"
+os.environ["XDG_CONFIG_HOME"] = str(_HOME / "config")
+os.environ["XDG_DATA_HOME"] = str(_HOME / "data")
 
 
 def example(name: str) -> Path:
+    """The example design ``name`` (without ``.toml``) in the pristine copy."""
     return EXAMPLES / f"{name}.toml"
+
+
+def designs_in(folder: Path) -> list[Path]:
+    """The design files of a folder: ``*.toml`` without review records."""
+    return sorted(p for p in folder.glob("*.toml") if ".review." not in p.name)
 
 
 def review_text(text: str, name: str = "<test>"):

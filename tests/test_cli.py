@@ -20,8 +20,9 @@ def reviewer(*args: str) -> subprocess.CompletedProcess:
 @pytest.mark.parametrize("path", ALL, ids=lambda p: p.stem)
 def test_check_every_example_as_json(path, capsys):
     assert main(["check", str(path), "--format", "json"]) == 0
-    data = json.loads(capsys.readouterr().out)
-    assert data["format"] == "bridge-reviewer/review" and data["version"] == 1
+    envelope = json.loads(capsys.readouterr().out)
+    assert envelope["format"] == "bridge-reviewer/review" and envelope["version"] == 2
+    [data] = envelope["reviews"]
     assert data["design"]["file"] == str(path)
     outcomes = {f["outcome"] for f in data["findings"]}
     assert outcomes <= {"fail", "pass", "needs_data", "open", "answered", "not_applicable"}
@@ -43,7 +44,7 @@ def test_check_text_and_markdown(path, capsys):
 
 def test_several_designs_in_one_call(capsys):
     assert main(["check", *map(str, ALL), "--format", "json"]) == 0
-    assert len(json.loads(capsys.readouterr().out)) == len(ALL)
+    assert len(json.loads(capsys.readouterr().out)["reviews"]) == len(ALL)
 
 
 def test_beyond_elv_design_carries_the_caution(capsys):

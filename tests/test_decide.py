@@ -48,7 +48,7 @@ def test_decide_round_trip_through_the_cli(bench, capsys):
     assert data["answers"][0]["answer"] == "yes"
     # the answer is taken into the review: the question no longer open
     assert main(["check", str(design), "--rules", str(rules), "--format", "json"]) == 0
-    findings = {f["key"]: f for f in json.loads(capsys.readouterr().out)["findings"]}
+    findings = {f["key"]: f for f in json.loads(capsys.readouterr().out)["reviews"][0]["findings"]}
     assert findings["house.gate-loop-short"]["outcome"] == "answered"
 
 

@@ -28,7 +28,7 @@ def views(design, rules, capsys):
         assert main(["check", str(design), "--rules", str(rules), "--format", fmt,
                      "--color", "never"]) == 0
         out[fmt] = capsys.readouterr().out
-    out["json"] = json.loads(out["json"])
+    [out["json"]] = json.loads(out["json"])["reviews"]
     out["flat"] = " ".join(out["text"].split())  # the terminal view wraps long lines
     return out
 
@@ -48,7 +48,10 @@ def bench(tmp_path):
 
 def test_finding_disappears_resolved(bench, capsys):
     design, rules = bench
-    revise(design, 'v_max = "24 V"', 'v_max = "18 V"')  # 18 V ≤ 20 V: passes now
+    # 18 V ≤ 20 V: passes now (the nominal and lowest bus move with it: v_min ≤ v_nom ≤ v_max)
+    revise(design, 'v_max = "24 V"', 'v_max = "18 V"')
+    revise(design, 'v_nom = "24 V"', 'v_nom = "18 V"')
+    revise(design, 'v_min = "22 V"', 'v_min = "17 V"')
     v = views(design, rules, capsys)
     [d] = [x for x in v["json"]["record"]["decisions"] if x["key"] == "house.bus-limit"]
     assert d["state"] == "resolved" and d["decided_on"]["value"] == 24.0
@@ -114,6 +117,7 @@ def test_diff_side_by_side(tmp_path, capsys):
     rules = write_rules(tmp_path)
     old = write_design(tmp_path, "old.toml")
     new = write_design(tmp_path, "new.toml", a=('v_max = "24 V"', 'v_max = "18 V"'),
+                       e=('v_nom = "24 V"', 'v_nom = "18 V"'), f=('v_min = "22 V"', 'v_min = "17 V"'),
                        b=('carrier = "20 kHz"', 'carrier = "12 kHz"'),
                        c=('power = "40 W"', 'power = "44 W"'), d=('revision = "A"', 'revision = "B"'))
     assert main(["diff", str(old), str(new), "--rules", str(rules), "--format", "json"]) == 0

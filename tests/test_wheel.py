@@ -31,3 +31,32 @@ def test_wheel_installs_and_reviews_a_bundled_example(tmp_path):
     assert p.returncode == 0, p.stderr
     assert "Battery lamp-and-pump inverter" in p.stdout and "PASS" in p.stdout
     assert Path(careful).is_file()
+
+
+@pytest.mark.slow
+def test_wheel_never_packs_records_or_exports(tmp_path):
+    """A checkout where someone walked an example and exported its report: the wheel still
+    holds only the package, the rules and the example designs."""
+    import shutil
+    import zipfile
+
+    src = tmp_path / "src"
+    shutil.copytree(ROOT, src, ignore=shutil.ignore_patterns(".venv", ".git", "__pycache__",
+                                                             "dist", "build", "*.egg-info"))
+    ex = src / "example_designs"
+    for stray in ("naive_bench_pchannel.review.toml", "review.md", "review.timing.svg",
+                  "review.json", "review.sarif", ".naive_bench_pchannel.review.toml.x.tmp"):
+        (ex / stray).write_text("stray\n")
+    (src / "snapshot_report.html").write_text("stray\n")
+    dist = tmp_path / "dist"
+    subprocess.run([sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(dist),
+                    str(src)], check=True, timeout=600)
+    (wheel,) = dist.glob("*.whl")
+    names = zipfile.ZipFile(wheel).namelist()
+    data = sorted(n for n in names if n.startswith("reviewer/_data/example_designs/"))
+    assert data == sorted(f"reviewer/_data/example_designs/{p.relative_to(ROOT / 'example_designs').as_posix()}"
+                          for p in (ROOT / "example_designs").rglob("*.toml")
+                          if ".review." not in p.name)
+    assert not [n for n in names if ".review." in n or n.endswith((".md", ".svg", ".html",
+                                                                    ".sarif", ".tmp"))]
+    assert any(n.startswith("reviewer/_data/rules/") for n in names)

@@ -51,13 +51,42 @@ def use_color(choice: str) -> bool:
     return sys.stdout.isatty() and "NO_COLOR" not in os.environ
 
 
+def writable(output: Path, what: str = "output") -> Path:
+    """``output`` when a file can be written there: its folder exists and it is no folder
+    itself; an :class:`~reviewer.errors.InputError` (exit 2) otherwise, before any work."""
+    from reviewer.errors import InputError, Problem
+
+    folder = output.parent if str(output.parent) else Path(".")
+    if output.is_dir():
+        raise InputError([Problem(str(output), None, "", f"the {what} is a folder; name a file "
+                                  "in it")])
+    if not folder.is_dir():
+        reason = "is a file, not a folder" if folder.exists() else "does not exist"
+        raise InputError([Problem(str(output), None, "", f"the folder {str(folder)!r} {reason}; "
+                                  f"create it first (the {what} is written only into an "
+                                  "existing folder)")])
+    return output
+
+
+def write(output: Path, text: str, what: str = "output") -> None:
+    """Write ``text`` to ``output`` atomically; a failure (no folder, no permission, a full disk)
+    is an :class:`~reviewer.errors.InputError` naming it, and the previous file is kept."""
+    from reviewer.atomic import write_text
+    from reviewer.errors import InputError, Problem
+
+    writable(output, what)
+    try:
+        write_text(output, text)
+    except OSError as e:
+        raise InputError([Problem(str(output), None, "", f"cannot write the {what}: "
+                                  f"{e.strerror or e}")]) from None
+
+
 def emit(text: str, output: Path | None) -> None:
     if output is None:
         sys.stdout.write(text)
     else:
-        from reviewer.atomic import write_text
-
-        write_text(output, text)
+        write(output, text, "report")
         print(f"wrote {output}", file=sys.stderr)
 
 

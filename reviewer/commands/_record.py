@@ -45,8 +45,17 @@ def finding_for(review, design: Path, key: str):
 
 
 def save(review, design: Path, record) -> Path:
+    """Write ``record`` beside ``design``, merged with any change another writer made to the
+    file since ``review`` read it; a conflict or a failed write is an InputError (exit 2)."""
     from reviewer import record as rec
+    from reviewer.errors import InputError, Problem
 
     path = rec.record_path(design)
-    rec.save(record, path)
+    try:
+        rec.save(record, path, base=review.record)
+    except rec.RecordConflict as e:
+        raise InputError([Problem(str(path), None, "", str(e))]) from None
+    except OSError as e:
+        raise InputError([Problem(str(path), None, "", f"cannot write the record: "
+                                  f"{e.strerror or e}; the previous file is kept")]) from None
     return path

@@ -18,14 +18,15 @@ def register(sub) -> None:
 def run(args: argparse.Namespace) -> int:
     from importlib.resources import files
 
-    from reviewer.atomic import write_text
+    from reviewer.commands._common import write
     from reviewer.errors import InputError, Problem
 
     target: Path = args.file
     if target.exists():
         raise InputError([Problem(str(target), None, "", "already exists; not overwritten")])
     starter = "starter_minimal.toml" if getattr(args, "minimal", False) else "starter.toml"
-    write_text(target, files("reviewer").joinpath(starter).read_text(encoding="utf-8"))
+    write(target, files("reviewer").joinpath(starter).read_text(encoding="utf-8"),
+          "starter design")
     hint = "" if starter == "starter_minimal.toml" else (
         " (every value is a placeholder: each review lists those still unchanged)")
     print(f"wrote {target}: fill it in, then run: reviewer check {target}{hint}", file=sys.stderr)

@@ -2,11 +2,13 @@
 
 from __future__ import annotations
 
+import math
 from typing import Annotated, Any, Literal
 
-from pydantic import BeforeValidator, Field, PlainSerializer, PlainValidator, WithJsonSchema
+from pydantic import Field, PlainSerializer, PlainValidator, WithJsonSchema
 
-from reviewer.units import UNITS, Span, UnitError, parse_span
+from reviewer.design.ranges import Range, for_unit, out_of_range, show
+from reviewer.units import UNITS, Span, UnitError, expected_text, parse_span
 
 
 def _schema(unit: str) -> dict[str, Any]:
@@ -28,15 +30,46 @@ def _schema(unit: str) -> dict[str, Any]:
 
 
 def _validator(unit: str):
+    rng = for_unit(unit)
+
     def validate(value: Any) -> Span:
         if isinstance(value, Span):
-            return value
-        try:
-            return parse_span(value, unit)
-        except UnitError as e:
-            raise ValueError(str(e)) from None
+            span = value
+        else:
+            try:
+                span = parse_span(value, unit)
+            except UnitError as e:
+                raise ValueError(str(e)) from None
+            except (OverflowError, RecursionError, MemoryError):
+                raise ValueError(f"expected {expected_text(unit)}, found a number too large "
+                                 "to read") from None
+        return checked(span, rng)
 
     return validate
+
+
+def checked(span: Span, rng: Range) -> Span:
+    """``span`` when it is finite, ordered (min ≤ typ ≤ max) and within ``rng``; a ValueError
+    saying what was found and what is allowed otherwise.
+
+    The unit's range (:data:`reviewer.design.ranges.BY_UNIT`) is applied here, so every quantity
+    field gets it; fields with a narrower range are checked by :func:`reviewer.design.ranges.check`.
+    """
+    for name, v in (("min", span.lo), ("typ", span.typ), ("max", span.hi)):
+        if not math.isfinite(v):
+            what = "NaN (not a number)" if math.isnan(v) else ("infinite" if v > 0 else
+                                                               "minus infinity")
+            where = "" if len({repr(x) for x in (span.lo, span.typ, span.hi)}) == 1 else \
+                f" (its {name})"
+            raise ValueError(f"a finite number is required; found {what}{where}")
+    if not span.lo <= span.typ <= span.hi:
+        raise ValueError(f"expected min ≤ typ ≤ max, found {show(span.lo, rng.unit)} / "
+                         f"{show(span.typ, rng.unit)} / {show(span.hi, rng.unit)} "
+                         "(a negative tolerance?)")
+    message = out_of_range(span, rng)
+    if message:
+        raise ValueError(message)
+    return span
 
 
 def _serialise(span: Span) -> Any:
@@ -106,9 +139,10 @@ def _wire(value: Any) -> Span:
         for suffix in ("mm²", "mm2", "sq mm", "mm^2"):
             if text.endswith(suffix):
                 try:
-                    return _exact(float(text[: -len(suffix)]) * 1e-6)
+                    area = float(text[: -len(suffix)]) * 1e-6
                 except ValueError:
                     break
+                return checked(_exact(area), for_unit("m²"))
     raise ValueError(f"expected a wire size such as '10 AWG' or '4 mm²', found {value!r}")
 
 

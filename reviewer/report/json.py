@@ -1,16 +1,18 @@
 """The review as JSON, in a documented, versioned shape.
 
 The shape is described by the JSON Schema ``review.schema.json`` beside this module
-(``reviewer schema --of review`` prints it). ``format`` is always ``"bridge-reviewer/review"``;
+(``reviewer schema --of review`` prints it). The output is always one envelope, whatever the
+number of designs: ``{"format": "bridge-reviewer/review", "version": 2, "reviews": [...]}``.
 ``version`` changes only when a field is removed or changes meaning (fields may be added within
-a version). One review is one object; several reviews are an array of such objects.
+a version: readers ignore keys they do not know).
 
-Top level: ``design`` (file and identity), ``beyond_extra_low_voltage`` and ``caution``,
+Each review: ``design`` (file and identity), ``beyond_extra_low_voltage`` and ``caution``,
 ``summary`` (failing findings by severity, other outcomes by name), ``findings`` (each with its
 numbers, text, source, ``decision`` and ``settled``), ``record`` (every decision with its state,
 answers, proposals; orphans included), ``sheet`` (every computed quantity) and ``missing``
 (quantities not computed, with the fields that would let them be). Numbers are SI, in the
-``unit`` given beside them; infinities are the strings ``"inf"`` and ``"-inf"``.
+``unit`` given beside them; infinities are the strings ``"inf"`` and ``"-inf"``; a finding's
+``relation`` is a word, ``"at_most"`` or ``"at_least"`` (``""`` for flags and questions).
 """
 
 from __future__ import annotations
@@ -23,7 +25,14 @@ from typing import Any
 from reviewer.review import CAUTION, Review
 
 FORMAT = "bridge-reviewer/review"
-VERSION = 1
+VERSION = 2
+RELATIONS = {"≤": "at_most", "≥": "at_least", "": ""}
+"""A finding's relation in machine outputs: the word a rule file uses for the limit."""
+
+
+def relation(symbol: str) -> str:
+    """``"≤" -> "at_most"``, ``"≥" -> "at_least"``; words pass through."""
+    return RELATIONS.get(symbol, symbol)
 
 
 def schema() -> dict[str, Any]:
@@ -57,6 +66,7 @@ def to_data(r: Review) -> dict[str, Any]:
     for f in r.findings:
         item = asdict(f)
         item["key"] = f.key
+        item["relation"] = relation(f.relation)
         item["corner"] = [{"field": p, "at": end} for p, end in f.corner]
         item["needs"] = list(f.needs)
         item["fields"] = list(f.fields)
@@ -80,8 +90,6 @@ def to_data(r: Review) -> dict[str, Any]:
                        "reviewer": p.reviewer, "at": p.at} for _, p in sorted(rec.proposals.items())],
     }
     return _clean({
-        "format": FORMAT,
-        "version": VERSION,
         "design": {"file": r.path, "title": d.title, "revision": d.revision, "author": d.author,
                    "date": d.date},
         "beyond_extra_low_voltage": r.beyond_elv,
@@ -97,6 +105,10 @@ def to_data(r: Review) -> dict[str, Any]:
     })
 
 
+def envelope(reviews: list[Review]) -> dict[str, Any]:
+    """The whole output: format, version and every review, in the order given."""
+    return {"format": FORMAT, "version": VERSION, "reviews": [to_data(r) for r in reviews]}
+
+
 def render(reviews: list[Review]) -> str:
-    data = [to_data(r) for r in reviews]
-    return json.dumps(data[0] if len(data) == 1 else data, indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(envelope(reviews), indent=2, ensure_ascii=False) + "\n"

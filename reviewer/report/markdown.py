@@ -9,7 +9,7 @@ and the calculation sheet as an appendix. A pure function of the :class:`Review`
 
 from __future__ import annotations
 
-from datetime import date as _date
+from reviewer.clock import today as _today
 
 from reviewer.findings import SEVERITIES
 from reviewer.report import common
@@ -45,7 +45,7 @@ def render(reviews: list[Review], review_date: str | None = None,
     pictures
         For each review path, the pictures written beside the report, linked from it.
     """
-    when = review_date or _date.today().isoformat()
+    when = review_date or _today()
     pictures = pictures or {}
     return "\n\n---\n\n".join(_one(r, when, pictures.get(r.path, [])) for r in reviews)
 

@@ -11,12 +11,22 @@ One run for all the designs reviewed. Each failing finding is a result:
 - ``suppressions``: a finding settled by a current accepted / not-applicable decision is
   suppressed (``external``, ``accepted``, with the reason as justification); one whose decision
   awaits re-confirmation carries an ``underReview`` suppression, which does not suppress it;
-- ``partialFingerprints["findingKey/v1"]``: the finding key, stable across revisions.
+- ``partialFingerprints["designFindingKey/v1"]``: the design file's URI and the finding key
+  (``"boards/bridge.toml#stress.vds-rating[high]"``), stable across revisions of the design and
+  distinct for the same finding in two designs.
+
+Checks that could not run for lack of data are results of kind ``open`` (the tool could not say
+pass or fail), and unanswered checklist questions results of kind ``review`` (a person must
+judge); SARIF 2.1.0 §3.27.10 requires the level ``none`` for any kind but ``fail``, so they are
+notes that never fail a build. Artifact URIs are relative to the working folder (or the folder
+given as ``base``), with the base id ``SRCROOT``; the output holds no time or absolute path, so
+the same input gives the same bytes.
 """
 
 from __future__ import annotations
 
 import json
+import os
 from pathlib import Path
 from typing import Any
 
@@ -24,16 +34,30 @@ from reviewer import __version__
 from reviewer import record as rec
 from reviewer.findings import Finding
 from reviewer.report import common
+from reviewer.report.json import relation
 from reviewer.review import Review
 from reviewer.spread import spread_properties
 
 SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
 LEVEL = {"hazard": "error", "risk": "warning", "advice": "note"}
+BASE_ID = "SRCROOT"
+NOTE_KINDS = {"needs_data": "open", "open": "review"}
+"""Outcomes reported as notes (level ``none``), by the SARIF result kind they take."""
 
 
-def _uri(path: str) -> str:
+def _uri(path: str, base: str | Path | None = None) -> str:
+    """``path`` as a URI reference relative to ``base`` (default: the working folder), with
+    ``..`` when it lies outside; an absolute ``file:`` URI only where no relative path exists
+    (another drive)."""
+    from urllib.parse import quote
+
     p = Path(path)
-    return p.resolve().as_uri() if p.is_absolute() else p.as_posix()
+    root = Path(base) if base is not None else Path.cwd()
+    try:
+        rel = os.path.relpath(p.resolve(), root.resolve())
+    except ValueError:
+        return p.resolve().as_uri()
+    return quote(Path(rel).as_posix(), safe="/.-_~")
 
 
 def _lines(path: str) -> dict[tuple[str, ...], int]:
@@ -46,7 +70,8 @@ def _lines(path: str) -> dict[tuple[str, ...], int]:
 
 
 def _location(index: int, uri: str, line: int | None, text: str = "") -> dict[str, Any]:
-    phys: dict[str, Any] = {"artifactLocation": {"uri": uri, "index": index}}
+    phys: dict[str, Any] = {"artifactLocation": {"uri": uri, "uriBaseId": BASE_ID,
+                                                 "index": index}}
     if line is not None:
         phys["region"] = {"startLine": line}
     loc: dict[str, Any] = {"physicalLocation": phys}
@@ -56,6 +81,11 @@ def _location(index: int, uri: str, line: int | None, text: str = "") -> dict[st
 
 
 def _message(f: Finding) -> str:
+    if f.outcome == "needs_data":
+        return (f"{f.title}: not checked, needs data: give "
+                f"{common.needs(f) or 'the missing values'}.")
+    if f.outcome == "open":
+        return f"{f.title}: open question, not yet answered: {f.question}"
     parts = [f"{common.label(f)}: {f.title}"]
     if f.value is not None:
         parts.append(f"computed {common.computed(f)}, limit {common.limit(f)}, "
@@ -84,19 +114,27 @@ def _rule(f: Finding) -> dict[str, Any]:
     }
 
 
-def to_data(reviews: list[Review]) -> dict[str, Any]:
+def reported(r: Review) -> list[Finding]:
+    """The findings that become results: failing ones (worst first), then those needing data
+    and the open questions (as notes)."""
+    notes = [f for f in r.findings if f.outcome in NOTE_KINDS]
+    return r.failures + sorted(notes, key=lambda f: (f.outcome, f.area, f.rule_id, f.subject))
+
+
+def to_data(reviews: list[Review], base: str | Path | None = None) -> dict[str, Any]:
     rules: dict[str, int] = {}
     rule_list: list[dict[str, Any]] = []
     artifacts: list[dict[str, Any]] = []
     results: list[dict[str, Any]] = []
     for r in reviews:
         index = len(artifacts)
-        uri = _uri(r.path)
-        artifacts.append({"location": {"uri": uri}, "roles": ["analysisTarget"]})
+        uri = _uri(r.path, base)
+        artifacts.append({"location": {"uri": uri, "uriBaseId": BASE_ID},
+                          "roles": ["analysisTarget"]})
         lines = _lines(r.path)
         from reviewer.design.tomlpos import line_of
 
-        for f in r.failures:
+        for f in reported(r):
             if f.rule_id not in rules:
                 rules[f.rule_id] = len(rule_list)
                 rule_list.append(_rule(f))
@@ -106,19 +144,22 @@ def to_data(reviews: list[Review]) -> dict[str, Any]:
             result: dict[str, Any] = {
                 "ruleId": f.rule_id,
                 "ruleIndex": rules[f.rule_id],
-                "level": LEVEL[f.severity],
+                "kind": NOTE_KINDS.get(f.outcome, "fail"),
+                "level": "none" if f.outcome in NOTE_KINDS else LEVEL[f.severity],
                 "message": {"text": _message(f)},
                 "locations": [_location(index, uri, first[1])],
-                "partialFingerprints": {"findingKey/v1": f.key},
+                "partialFingerprints": {"designFindingKey/v1": f"{uri}#{f.key}"},
                 "properties": {"key": f.key, "subject": f.subject, "severity": f.severity,
-                               "field": first[0], "unit": f.unit, "value": f.value,
-                               "limit": f.limit, "margin": f.margin, **spread_properties(f)},
+                               "outcome": f.outcome, "field": first[0], "unit": f.unit,
+                               "relation": relation(f.relation), "value": f.value,
+                               "limit": f.limit, "margin": f.margin,
+                               "needs": list(f.needs) or None, **spread_properties(f)},
             }
             if others:
                 result["relatedLocations"] = [
                     dict(_location(index, uri, line, f"design field {x}"), id=i)
                     for i, (x, line) in enumerate(others, start=1)]
-            d = r.decision(f.key)
+            d = r.decision(f.key) if f.outcome == "fail" else None
             if d is not None:
                 st = r.state(f.key)
                 result["properties"]["decision"] = {"kind": d.kind, "state": st,
@@ -138,6 +179,9 @@ def to_data(reviews: list[Review]) -> dict[str, Any]:
         "runs": [{
             "tool": {"driver": {"name": "bridge-reviewer", "version": __version__,
                                 "rules": rule_list}},
+            "originalUriBaseIds": {BASE_ID: {"description": {
+                "text": "The folder the artifact URIs are relative to: the working folder of "
+                        "the review, or the folder given with --base."}}},
             "artifacts": artifacts,
             "results": results,
             "columnKind": "unicodeCodePoints",
@@ -157,5 +201,5 @@ def _clean(x: Any) -> Any:
     return x
 
 
-def render(reviews: list[Review]) -> str:
-    return json.dumps(to_data(reviews), indent=2, ensure_ascii=False) + "\n"
+def render(reviews: list[Review], base: str | Path | None = None) -> str:
+    return json.dumps(to_data(reviews, base), indent=2, ensure_ascii=False) + "\n"

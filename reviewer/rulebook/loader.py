@@ -19,7 +19,7 @@ from functools import lru_cache
 from pathlib import Path
 from typing import Any
 
-from reviewer.design.loader import read_toml, validate
+from reviewer.design.loader import expect_kind, read_file, read_toml, validate
 from reviewer.design.tomlpos import key_lines, line_of
 from reviewer.errors import InputError, Problem, suggest
 from reviewer.expr import (NODIM, Expr, ExprError, Type, compile_expr, dimension_of, infer,
@@ -204,11 +204,9 @@ class _Read:
 
 def _read(source: Source) -> _Read:
     path = source.path
-    try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as e:
-        raise InputError([Problem(str(path), None, "", f"cannot be read: {e}")]) from None
+    text = read_file(path)
     data = read_toml(text, str(path))
+    expect_kind(data, "rules", text, str(path))
     area = data.get("area", "")
     origin = "built-in" if source.kind == "built-in" else str(path)
     for r in data.get("rule", []) if isinstance(data.get("rule"), list) else []:
@@ -256,7 +254,7 @@ def _locate(file: str, lines: dict, where: tuple[str, ...], rule_id: str,
     for message, key in found:
         path = where + ((key,) if key else ())
         label = f"{where[0]}[{where[1]}] ({rule_id})" + (f".{key}" if key else "")
-        out.append(Problem(file, line_of(lines, path), label, message))
+        out.append(Problem(file, line_of(lines, path) or 1, label, message))
     return out
 
 

@@ -195,8 +195,7 @@ class Walk:
         return rec.load(self.record_file, self.path.name)
 
     def _save(self, record: rec.Record) -> None:
-        rec.save(record, self.record_file)
-        self.record = record
+        self.record = rec.save(record, self.record_file, base=self.record)  # merged, never lost
         self.record_mtime = self.record_file.stat().st_mtime
 
     def design_mtime(self) -> float | None:
@@ -361,7 +360,7 @@ class Walk:
             d = replace(record.decisions[key], accepted_by=accepted_by.strip())
             record = replace(record, decisions={**record.decisions, key: d})
         self._save(record)
-        self.snapshot = _restamp(self.snapshot, record)
+        self.snapshot = _restamp(self.snapshot, self.record)
 
     def answer_conflicts(self, question: str, answer: str) -> list:
         """What the design file says against answering ``answer`` to ``question``."""

@@ -11,10 +11,10 @@ import pytest
 from jsonschema import Draft202012Validator
 
 from reviewer.cli import main
-from tests.conftest import EXAMPLES
+from tests.conftest import EXAMPLES, designs_in
 from tests.report.helpers import write_design, write_rules
 
-ALL = sorted(p for p in EXAMPLES.glob("*.toml") if not p.name.endswith(".review.toml"))
+ALL = designs_in(EXAMPLES)
 
 
 @pytest.fixture(scope="module")
@@ -37,10 +37,21 @@ def test_every_example_validates(path, validator, capsys):
     assert errors(validator, data) == []
 
 
-def test_several_reviews_are_an_array_that_validates(validator, capsys):
-    assert main(["check", *map(str, ALL[:2]), "--format", "json"]) == 0
-    data = json.loads(capsys.readouterr().out)
-    assert isinstance(data, list) and errors(validator, data) == []
+def test_one_envelope_for_one_or_several_designs(validator, capsys):
+    for paths in (ALL[:1], ALL[:2]):
+        assert main(["check", *map(str, paths), "--format", "json"]) == 0
+        data = json.loads(capsys.readouterr().out)
+        assert list(data) == ["format", "version", "reviews"]
+        assert data["format"] == "bridge-reviewer/review" and data["version"] == 2
+        assert [r["design"]["file"] for r in data["reviews"]] == list(map(str, paths))
+        assert errors(validator, data) == []
+
+
+def test_relations_are_words(capsys):
+    assert main(["check", str(ALL[0]), "--format", "json"]) == 0
+    findings = json.loads(capsys.readouterr().out)["reviews"][0]["findings"]
+    relations = {f["relation"] for f in findings}
+    assert relations <= {"at_most", "at_least", ""} and {"at_most", "at_least"} <= relations
 
 
 @pytest.fixture
@@ -60,25 +71,28 @@ def with_record(tmp_path, capsys):
 
 
 def test_record_in_every_state_validates(with_record, validator):
-    data = with_record
+    [data] = with_record["reviews"]
     states = {d["key"]: d["state"] for d in data["record"]["decisions"]}
     assert states == {"house.bus-limit": "reconfirm", "house.power-cap[high]": "orphan",
                       "house.power-cap[low]": "orphan"}
     assert data["record"]["orphans"] == ["house.power-cap[high]", "house.power-cap[low]"]
     q = next(f for f in data["findings"] if f["key"] == "house.gate-loop-short")
     assert q["outcome"] == "fail" and q["answer_note"] == "long"
-    assert errors(validator, data) == []
+    assert errors(validator, with_record) == []
 
 
 @pytest.mark.parametrize("breaks", [
-    lambda d: d.update(version=2),
-    lambda d: d["findings"][0].update(severity="fatal"),
-    lambda d: d["findings"][0].update(outcome="maybe"),
-    lambda d: d["findings"][0].pop("margin"),
-    lambda d: d["record"]["decisions"][0].update(state="stale"),
-    lambda d: d["record"]["decisions"][0].update(kind="perhaps"),
-    lambda d: d["sheet"][0].update(name="Not A Name"),
+    lambda d: d.update(version=1),
+    lambda d: d["reviews"][0]["findings"][0].update(severity="fatal"),
+    lambda d: d["reviews"][0]["findings"][0].update(outcome="maybe"),
+    lambda d: d["reviews"][0]["findings"][0].update(relation="≤"),
+    lambda d: d["reviews"][0]["findings"][0].pop("margin"),
+    lambda d: d["reviews"][0]["record"]["decisions"][0].update(state="stale"),
+    lambda d: d["reviews"][0]["record"]["decisions"][0].update(kind="perhaps"),
+    lambda d: d["reviews"][0]["sheet"][0].update(name="Not A Name"),
+    lambda d: d["reviews"][0].update(extra=1),
     lambda d: d.update(extra=1),
+    lambda d: d.update(reviews=d["reviews"][0]),
 ])
 def test_broken_reports_do_not_validate(with_record, validator, breaks):
     data = copy.deepcopy(with_record)
@@ -90,4 +104,4 @@ def test_schema_command_prints_it(capsys):
     assert main(["schema", "--of", "review"]) == 0
     s = json.loads(capsys.readouterr().out)
     assert s["title"].startswith("Bridge Reviewer review")
-    assert s["$defs"]["review"]["properties"]["version"] == {"const": 1}
+    assert s["properties"]["version"] == {"const": 2}

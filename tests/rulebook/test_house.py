@@ -106,7 +106,7 @@ def test_disable_needs_a_reason_and_every_view_shows_it(tmp_path, capsys):
         assert "Ringing measured on every board; see test log 7" in flat, fmt
         assert "stress.vds-headroom" in out
         if fmt == "json":
-            data = json.loads(out)
+            [data] = json.loads(out)["reviews"]
             assert data["disabled_rules"] == [{
                 "rule": "stress.vds-headroom", "title": book.disabled[0].title,
                 "reason": "Ringing measured on every board; see test log 7", "origin": str(house)}]
@@ -196,11 +196,11 @@ def test_check_command_finds_the_project_folder(tmp_path, capsys):
     design = proj / "d.toml"
     design.write_text(MINIMAL)
     assert main(["check", str(design), "--format", "json"]) == 0
-    data = json.loads(capsys.readouterr().out)
+    [data] = json.loads(capsys.readouterr().out)["reviews"]
     f = next(x for x in data["findings"] if x["key"] == HEADROOM)
     assert f["outcome"] == "fail" and f["limit"] == pytest.approx(48.0)
     assert main(["check", str(design), "--format", "json", "--no-house-rules"]) == 0
-    data = json.loads(capsys.readouterr().out)
+    [data] = json.loads(capsys.readouterr().out)["reviews"]
     assert next(x for x in data["findings"] if x["key"] == HEADROOM)["outcome"] == "pass"
 
 
