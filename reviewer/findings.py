@@ -47,11 +47,24 @@ class Finding:
     question: str = ""
     answer_note: str = ""
     assumptions: tuple[str, ...] = field(default_factory=tuple)
+    fail_title: str = ""
+    """The problem, as the heading of a failing or open finding; "" when the rule gives none."""
+    fix: tuple[tuple[str, str], ...] = ()
+    """Field changes (path, text as a designer enters it) verified by re-review to make this
+    finding pass (see :mod:`reviewer.passcheck`); empty when none was found or none is needed."""
 
     @property
     def key(self) -> str:
         """Stable identity across revisions: rule id and subject."""
         return f"{self.rule_id}[{self.subject}]" if self.subject else self.rule_id
+
+    @property
+    def heading(self) -> str:
+        """The title for this outcome: the problem for a failing or open finding, the condition
+        that holds otherwise. A rule with no failing title shows "Not met: " before its title."""
+        if self.outcome in ("fail", "open"):
+            return self.fail_title or f"Not met: {self.title}"
+        return self.title
 
     @property
     def relative_margin(self) -> float | None:

@@ -10,6 +10,7 @@ from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
+from reviewer.passcheck import verify
 from reviewer.quantities import Sheet, compute
 from reviewer.rulebook.loader import Disabled, Rulebook, load_rulebook
 
@@ -109,7 +110,8 @@ def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
     sheet = compute(design, focus=judged_names(book))
-    findings = evaluate(book, sheet, answers_of(design, record))
+    answers = answers_of(design, record)
+    findings = verify(evaluate(book, sheet, answers), design, book, sheet, answers)
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
 
 

@@ -558,6 +558,12 @@ def compile_rule(rule: Rule) -> list[Compiled]:
         for f in rule.fields + ([rule.pass_.field] if rule.pass_ and rule.pass_.field else []):
             if sub(f) not in design_paths:
                 problems.append((f"unknown design field {sub(f)!r}{suggest(sub(f), design_paths)}", "fields"))
+        if rule.pass_ is not None and rule.pass_.field and sub(rule.pass_.field) in design_paths:
+            field_unit = names.get(f"design.{sub(rule.pass_.field)}", "")
+            if dimension_of(field_unit) != dimension_of(rule.pass_.unit):
+                problems.append((f"the pass value is in {rule.pass_.unit or 'no unit'!r}, but its "
+                                 f"field {sub(rule.pass_.field)!r} is in {field_unit or 'no unit'!r}: "
+                                 "a pass value is a value for its field", "pass"))
         for key, text in (("mitigation", rule.mitigation), ("why", rule.why), ("title", rule.title)):
             for ph in placeholders(sub(text)):
                 e = comp(ph[0], key, SPECIAL | {"pass_value", "margin", "subject"})
