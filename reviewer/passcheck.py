@@ -191,7 +191,10 @@ class _Judge:
                 self.cache[key] = None
                 return None
             self.runs += 1
-            self.cache[key] = judge(self.c, compute(d2, focus=self.focus), self.answers)
+            try:
+                self.cache[key] = judge(self.c, compute(d2, focus=self.focus), self.answers)
+            except (ArithmeticError, ValueError):  # a value the physics cannot take (a zero rating)
+                self.cache[key] = None
         return self.cache[key]
 
     def passes(self, changes: dict[str, Any]) -> bool:
@@ -275,18 +278,35 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
             return float(math.ceil(x - 1e-9) if up else math.floor(x + 1e-9))
         return round_toward(x, up, digits)
 
-    def test(x: float) -> bool:
-        if x <= 0 and solved > 0:
-            return False
+    def judged(x: float) -> Finding | None:
+        if x <= 0:  # every field a pass value is for is a positive size, rating or time
+            return None
         stored, _ = _stored(current, x)
-        return j.passes({**extra, field: _as_input(field, stored, unit)})
+        return j.judged({**extra, field: _as_input(field, stored, unit)})
 
+    def test(x: float) -> bool:
+        got = judged(x)
+        return got is not None and got.outcome == "pass"
+
+    firsts = {up: candidate(solved * (1 + (1 if up else -1) * MARGIN) if solved else solved, up)
+              for up in directions}
+    for up in directions:
+        if test(firsts[up]):
+            return _fix(field, firsts[up], current, unit, extra)
+    if len(directions) == 2:  # no present value: go the way the margin grows
+        m = {up: _relative(judged(firsts[up])) for up in directions}
+        if m[True] is not None and m[False] is not None and m[False] > m[True]:
+            directions = [False, True]
     for up in directions:
         sign = 1.0 if up else -1.0
-        first = candidate(solved * (1 + sign * MARGIN) if solved else solved, up)
-        if test(first):
-            return _fix(field, first, current, unit, extra, up, solved)
-        # step outward until it passes, then bisect back
+        first = firsts[up]
+        # a limit rule: aim at a small positive margin along the secant through the last two
+        # points (in log x for positive values), rounding each guess toward passing
+        start = [cur] if cur is not None else [firsts[not up]]
+        found = _secant(judged, [*start, first], sign, lambda x: candidate(x, up))
+        if found is not None:
+            return _fix(field, found, current, unit, extra)
+        # otherwise step outward until it passes, then bisect back
         fail_x, pass_x = first, None
         step = 0.05
         for _ in range(STEPS):
@@ -306,12 +326,50 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         for digits in (DIGITS, DIGITS + 1, DIGITS + 2, 8):
             x = candidate(pass_x * (1 + sign * MARGIN), up, digits)
             if test(x):
-                return _fix(field, x, current, unit, extra, up, solved)
+                return _fix(field, x, current, unit, extra)
     return None
 
 
-def _fix(field: str, x: float, current: Any, unit: str, extra: dict[str, Any], up: bool,
-         solved: float | None) -> Fix:
+def _relative(got: Finding | None) -> float | None:
+    if got is None or got.margin is None or not got.limit or not math.isfinite(got.margin):
+        return None
+    return got.margin / abs(got.limit)
+
+
+def _secant(judged: Any, start: list[float], sign: float, rounded: Any,
+            tries: int = 8) -> float | None:
+    """A passing value found from the margins of a limit rule, or None (flags: no margin)."""
+    pts: list[tuple[float, float]] = []
+    for x in start:
+        m = _relative(judged(x))
+        if m is not None:
+            pts.append((x, m))
+    for _ in range(tries):
+        if len(pts) < 2:
+            return None
+        (x0, m0), (x1, m1) = pts[-2], pts[-1]
+        if m1 == m0 or x0 == x1:
+            return None
+        logs = x0 > 0 and x1 > 0
+        u0, u1 = (math.log(x0), math.log(x1)) if logs else (x0, x1)
+        u = u1 + (MARGIN - m1) * (u1 - u0) / (m1 - m0)
+        x = math.exp(max(min(u, u1 + 3), u1 - 3)) if logs else u
+        if (x - x1) * sign <= 0:  # the guess goes back: the margin is not monotonic here
+            return None
+        x = rounded(x)
+        got = judged(x)
+        if got is None:
+            return None
+        if got.outcome == "pass":
+            return x
+        m = _relative(got)
+        if m is None:
+            return None
+        pts.append((x, m))
+    return None
+
+
+def _fix(field: str, x: float, current: Any, unit: str, extra: dict[str, Any]) -> Fix:
     stored, note = _stored(current, x)
     changes = [(p, v, _entered(p, v, "")) for p, v in extra.items()]
     changes.append((field, stored, _entered(field, stored, unit)))
@@ -334,7 +392,7 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
         if f.outcome != "fail" or not f.pass_field or c is None or c.rule.pass_ is None:
             out.append(f)
             continue
-        if f.pass_value is None or not math.isfinite(f.pass_value):
+        if f.pass_value is None or not math.isfinite(f.pass_value) or f.pass_value <= 0:
             out.append(_no_fix(f, c, sheet, answers, solved=False))
             continue
         fields = fields or _field_values(design)
