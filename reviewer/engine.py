@@ -11,7 +11,7 @@ from typing import Any
 from reviewer.findings import Finding
 from reviewer.quantities import Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
-from reviewer.units import render
+from reviewer.shown import figure
 
 SLACK = 1e-9
 
@@ -28,7 +28,8 @@ def _base(c: Compiled, outcome: str, **kw: Any) -> Finding:
         rule_id=r.id, subject=c.subject, area=r.area, title=c.title, severity=r.severity,
         outcome=outcome, why=" ".join(c.why.split()), reference=r.reference, basis=r.basis,
         unit=c.unit, relation=r.relation, fields=c.fields, origin=r.origin,
-        question=" ".join((r.ask or "").split()), assumptions=tuple(r.assumptions), **kw,
+        question=" ".join((r.ask or "").split()), assumptions=tuple(r.assumptions),
+        fail_title=c.fail_title, **kw,
     )
 
 
@@ -80,7 +81,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
         env.load(e.names - {"value", "limit"})
     if env.needs:
         return _base(c, "needs_data", needs=tuple(dict.fromkeys(env.needs)))
-    env.load(mit_exprs)  # names only the text uses: shown as "—" when absent, never blocking
+    env.load(mit_exprs)  # names only the text uses: shown in words when absent, never blocking
 
     value = limit = margin = None
     if c.value is not None:
@@ -143,12 +144,12 @@ def render_text(text: str, scalars: dict[str, Any], c: Compiled, sheet: Sheet) -
         try:
             e = compile_expr(expr)
             if any(n not in scalars for n in e.names):
-                shown = "—"
+                shown = figure(None, "")
             else:
                 result = e.evaluate(scalars)
                 shown = _show(result, unit if unit is not None else _unit_of(expr, c, sheet))
         except ValueError:
-            shown = "—"
+            shown = figure(None, "")
         out = out.replace(raw, shown, 1)
     return " ".join(out.split())
 
@@ -165,14 +166,7 @@ def _unit_of(expr: str, c: Compiled, sheet: Sheet) -> str:
 
 
 def _show(result: Any, unit: str) -> str:
-    if result is None:
-        return "—"
-    if isinstance(result, str):
-        return result
-    try:
-        return render(float(result), unit)
-    except (TypeError, ValueError):
-        return str(result)
+    return figure(result, unit)
 
 
 def _question(c: Compiled, answers: dict[str, Any]) -> Finding:

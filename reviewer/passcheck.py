@@ -405,12 +405,30 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
 _PASS = re.compile(r"\{\s*pass_value\s*(\|[^{}]*)?\}")
 
 
-def _text_with(c: Any, sheet: Any, answers: dict[str, Any], shown: str) -> str:
-    """The finding's mitigation rendered with ``shown`` in place of ``{pass_value}``."""
-    from reviewer.engine import judge
+def _text_with(c: Any, f: Finding, sheet: Any, answers: dict[str, Any], shown: str | None) -> str:
+    """The finding's mitigation (its case, if one holds) rendered with ``shown`` in place of
+    ``{pass_value}``; with ``shown`` None, every sentence that gives the pass value is left out."""
+    from reviewer import cases
 
-    template = _PASS.sub(lambda m: shown.replace("{", "(").replace("}", ")"), c.mitigation)
-    return judge(replace(c, mitigation=template), sheet, answers).mitigation
+    template = cases.template(c, f, sheet)
+    if shown is None:
+        template = " ".join(s for s in _sentences(template) if not _PASS.search(s))
+    else:
+        template = _PASS.sub(lambda m: shown.replace("{", "(").replace("}", ")"), template)
+    return cases.render(c, f, sheet, answers, template)
+
+
+def _sentences(text: str) -> list[str]:
+    """``text`` cut after each '. ' outside placeholders."""
+    out, depth, start = [], 0, 0
+    for i, ch in enumerate(text):
+        depth += ch == "{"
+        depth -= ch == "}"
+        if ch == "." and depth == 0 and (i + 1 == len(text) or text[i + 1].isspace()):
+            out.append(text[start:i + 1].strip())
+            start = i + 1
+    rest = text[start:].strip()
+    return out + ([rest] if rest else [])
 
 
 def _with_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], fix: Fix) -> Finding:
@@ -420,7 +438,7 @@ def _with_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], fix: Fix)
     unit = f.pass_unit
     shown = render(fix.value, unit) if fix.value is not None else main[2]
     extra = fix.changes[:-1]
-    text = _text_with(c, sheet, answers, shown)
+    text = _text_with(c, f, sheet, answers, shown)
     if fix.field != f.pass_field or extra:
         why = (f"{f.pass_field} has no effect on this check while "
                + ", ".join(f"{p} is {_entered(p, not v, '')}" for p, v, _ in extra)
@@ -439,15 +457,13 @@ def _with_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], fix: Fix)
 
 def _no_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], solved: bool) -> Finding:
     field = f.pass_field
-    shown = f"a value of {field} found by calculation" if solved else f"a value of {field}"
-    text = _text_with(c, sheet, answers, "(no single value found)")
+    text = _text_with(c, f, sheet, answers, None)
     if solved:
         text += (f" No value of {field} alone was found that makes this check pass when the "
-                 "design is reviewed again with it: change the other quantities named here.")
+                 "design is reviewed again with it; the other levers named here remain.")
     else:
-        text += (f" No value of {field} alone can meet the limit here: change the other "
-                 "quantities named here.")
-    del shown
+        text += (f" No value of {field} alone can meet the limit here (the calculation gives no "
+                 "positive, finite value); the other levers named here remain.")
     return replace(f, pass_value=None, mitigation=text, fix=())
 
 

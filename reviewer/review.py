@@ -6,6 +6,7 @@ from collections import Counter
 from dataclasses import dataclass
 from pathlib import Path
 
+from reviewer import cases
 from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
@@ -111,7 +112,8 @@ def review_design(design: Design, path: str, book: Rulebook,
     record = record or rec.Record(design=Path(path).name)
     sheet = compute(design, focus=judged_names(book))
     answers = answers_of(design, record)
-    findings = verify(evaluate(book, sheet, answers), design, book, sheet, answers)
+    findings = cases.apply(evaluate(book, sheet, answers), book, sheet, answers)
+    findings = verify(findings, design, book, sheet, answers)
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
 
 
