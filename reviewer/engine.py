@@ -11,7 +11,7 @@ from typing import Any
 from reviewer.findings import Finding
 from reviewer.quantities import Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
-from reviewer.shown import figure
+from reviewer.shown import distinct, figure
 
 SLACK = 1e-9
 
@@ -148,6 +148,9 @@ def render_text(text: str, scalars: dict[str, Any], c: Compiled, sheet: Sheet) -
             else:
                 result = e.evaluate(scalars)
                 shown = _show(result, unit if unit is not None else _unit_of(expr, c, sheet))
+                if expr in ("value", "limit") and unit is None:  # tell them apart when close
+                    shown = distinct(scalars.get("value"), scalars.get("limit"),
+                                     c.unit)[expr == "limit"]
         except ValueError:
             shown = figure(None, "")
         out = out.replace(raw, shown, 1)

@@ -57,6 +57,8 @@ def to_data(r: Review) -> dict[str, Any]:
     for f in r.findings:
         item = asdict(f)
         item["key"] = f.key
+        item["heading"] = f.heading
+        item["fix"] = [{"field": p, "value": v} for p, v in f.fix]
         item["corner"] = [{"field": p, "at": end} for p, end in f.corner]
         item["needs"] = list(f.needs)
         item["fields"] = list(f.fields)
