@@ -85,13 +85,13 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out += ["## Not checked: needs data", "",
                 "These checks could not run: the design does not give a value they need.", "",
                 "| Check | Title | Give |", "|---|---|---|"]
-        out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.needs(f))} |" for f in missing]
+        out += [f"| `{f.key}` | {_cell(f.heading)} | {_cell(common.needs(f))} |" for f in missing]
         out.append("")
     passed = r.by_outcome("pass")
     if passed:
         out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin |",
                 "|---|---|---|---|---|"]
-        out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.computed(f) or 'holds')} | "
+        out += [f"| `{f.key}` | {_cell(f.heading)} | {_cell(common.computed(f) or 'holds')} | "
                 f"{_cell(common.limit(f))} | {_cell(common.margin(f))} |" for f in passed]
         out.append("")
     out += _layout(r)
@@ -140,7 +140,7 @@ def _findings(r: Review) -> list[str]:
         return []
     out = ["## Findings", ""]
     for i, f in enumerate(fails, start=1):
-        out += [f"### {i}. {common.label(f)}: {f.title}", "",
+        out += [f"### {i}. {common.label(f)}: {f.heading}", "",
                 f"`{f.key}` · area {f.area} · {f.severity}" +
                 (" · settled by decision" if r.settled(f) else ""), ""]
         rows = []

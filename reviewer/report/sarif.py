@@ -55,7 +55,7 @@ def _location(index: int, uri: str, line: int | None, text: str = "") -> dict[st
 
 
 def _message(f: Finding) -> str:
-    parts = [f"{common.label(f)}: {f.title}"]
+    parts = [f"{common.label(f)}: {f.heading}"]
     if f.value is not None:
         parts.append(f"computed {common.computed(f)}, limit {common.limit(f)}, "
                      f"margin {common.margin(f)}")

@@ -57,7 +57,7 @@ def _one(console, r: Review, show_passed: bool) -> None:
         title = Text()
         title.append(f"{common.label(f):<7}", style=STYLE[f.severity])
         title.append(f" {f.key}", style="bold")
-        title.append(f"  {f.title}")
+        title.append(f"  {f.heading}")
         if r.settled(f):
             title.append("  (settled by decision)", style="dim")
         console.print(title)
@@ -103,7 +103,7 @@ def _one(console, r: Review, show_passed: bool) -> None:
     if missing:
         console.print(Text("Needs data (not checked)", style="bold magenta"))
         for f in missing:
-            console.print(Text(f"  {f.key}: {f.title} — give {common.needs(f)}"))
+            console.print(Text(f"  {f.key}: {f.heading} — give {common.needs(f)}"))
         console.print()
     questions = r.by_outcome("open")
     if questions:

@@ -140,7 +140,7 @@ def detail(walk: Walk, item: Item | None) -> Text:
     sym, word, style = outcome_mark(f.outcome, f.severity)
     word = LONG_WORD.get(f.outcome, word)
     t.append(f"{sym} {word}", style=style + " reverse")
-    t.append(f"  {f.title}\n", style="bold")
+    t.append(f"  {f.heading}\n", style="bold")
     t.append(f"{f.key}   area {f.area}   severity {f.severity}   {f.origin} rule\n\n", style="dim")
     if f.question:
         _row(t, "Question", f.question)
