@@ -100,6 +100,8 @@ class Sheet:
     """For each run, which toleranced inputs were away from typical: ((path, "min"|"max"), ...)."""
     series: dict[str, Any] = field(default_factory=dict)
     """Data for pictures (spectra, timing), from the typical run; never judged by rules."""
+    read_fields: frozenset[str] = frozenset()
+    """Every design field path a derive module read in any run."""
 
     def get(self, name: str) -> Quantity | None:
         return self.quantities.get(name)
@@ -383,7 +385,9 @@ def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] |
         if value is None:
             missing[f"design.{path}"] = Missing(f"design.{path}", (path,))
     corners = tuple(tuple(sorted(a.items())) for a in assigns)
-    return Sheet(quantities, missing, corners, ctxs[0].series)
+    read = frozenset(name for seen in replays for r in seen for kind, name, _ in r.reads
+                     if kind == "v")
+    return Sheet(quantities, missing, corners, ctxs[0].series, read)
 
 
 @dataclass(frozen=True)

@@ -11,6 +11,7 @@ from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
+from reviewer.inputs import notices
 from reviewer.passcheck import verify
 from reviewer.quantities import Sheet, compute
 from reviewer.rulebook.loader import Disabled, Rulebook, load_rulebook
@@ -36,6 +37,9 @@ class Review:
     record: rec.Record = rec.Record()
     disabled: tuple[Disabled, ...] = ()
     """Rules switched off by house files, each with its reason: every view shows them."""
+    notices: tuple[str, ...] = ()
+    """Sentences about the input: a field the design gives that no check uses (see
+    :mod:`reviewer.inputs`)."""
 
     def finding(self, key: str) -> Finding | None:
         return next((f for f in self.findings if f.key == key), None)
@@ -114,7 +118,8 @@ def review_design(design: Design, path: str, book: Rulebook,
     answers = answers_of(design, record)
     findings = cases.apply(evaluate(book, sheet, answers), book, sheet, answers)
     findings = verify(findings, design, book, sheet, answers)
-    return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
+    return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled),
+                  notices(design, sheet, book))
 
 
 def review_file(path: str | Path, rule_files: list[Path] | None = None,

@@ -93,6 +93,7 @@ def to_data(r: Review) -> dict[str, Any]:
         "record": record,
         "disabled_rules": [{"rule": x.rule_id, "title": x.title, "reason": x.reason,
                             "origin": x.origin} for x in r.disabled],
+        "notices": list(r.notices),
         "sheet": sheet,
         "missing": [{"name": m.name, "needs": list(m.needs)} for m in r.sheet.missing.values()
                     if not m.name.startswith("design.")],

@@ -80,6 +80,8 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out += [f"| `{x.rule_id}` | {_cell(x.title)} | {_cell(x.reason)} | {_cell(x.origin)} |"
                 for x in r.disabled]
         out.append("")
+    if r.notices:
+        out += ["## Notices on the input", "", *[f"- {_cell(n)}" for n in r.notices], ""]
     missing = r.by_outcome("needs_data")
     if missing:
         out += ["## Not checked: needs data", "",

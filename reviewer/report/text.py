@@ -99,6 +99,11 @@ def _one(console, r: Review, show_passed: bool) -> None:
         for x in r.disabled:
             console.print(Text(f"  {x.rule_id}: {x.title} — {x.reason} (by {x.origin})"))
         console.print()
+    if r.notices:
+        console.print(Text("Notices on the input", style="bold"))
+        for n in r.notices:
+            console.print(Text(f"  {n}"))
+        console.print()
     missing = r.by_outcome("needs_data")
     if missing:
         console.print(Text("Needs data (not checked)", style="bold magenta"))
