@@ -49,6 +49,9 @@ class Finding:
     assumptions: tuple[str, ...] = field(default_factory=tuple)
     fail_title: str = ""
     """The problem, as the heading of a failing or open finding; "" when the rule gives none."""
+    pass_solved: float | None = None
+    """The pass value as the rule's ``pass`` expression solves it at the worst corner, before the
+    margin, rounding and re-review that give ``pass_value`` (see :mod:`reviewer.passcheck`)."""
     fix: tuple[tuple[str, str], ...] = ()
     """Field changes (path, text as a designer enters it) verified by re-review to make this
     finding pass (see :mod:`reviewer.passcheck`); empty when none was found or none is needed."""

@@ -390,7 +390,7 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
     for f in findings:
         c = compiled.get((f.rule_id, f.subject))
         if f.outcome != "fail" or not f.pass_field or c is None or c.rule.pass_ is None:
-            out.append(f)
+            out.append(f if f.pass_value is None else replace(f, pass_solved=f.pass_value))
             continue
         if f.pass_value is None or not math.isfinite(f.pass_value) or f.pass_value <= 0:
             out.append(_no_fix(f, c, sheet, answers, solved=False))
@@ -403,9 +403,11 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
 
 
 _PASS = re.compile(r"\{\s*pass_value\s*(\|[^{}]*)?\}")
+_WORD = re.compile(r"\bpass_value\b")
 
 
-def _text_with(c: Any, f: Finding, sheet: Any, answers: dict[str, Any], shown: str | None) -> str:
+def _text_with(c: Any, f: Finding, sheet: Any, answers: dict[str, Any], shown: str | None,
+               value: float | None = None) -> str:
     """The finding's mitigation (its case, if one holds) rendered with ``shown`` in place of
     ``{pass_value}``; with ``shown`` None, every sentence that gives the pass value is left out."""
     from reviewer import cases
@@ -415,6 +417,8 @@ def _text_with(c: Any, f: Finding, sheet: Any, answers: dict[str, Any], shown: s
         template = " ".join(s for s in _sentences(template) if not _PASS.search(s))
     else:
         template = _PASS.sub(lambda m: shown.replace("{", "(").replace("}", ")"), template)
+        if value is not None:  # the pass value inside a formula: the verified one too
+            template = _WORD.sub(repr(float(value)), template)
     return cases.render(c, f, sheet, answers, template)
 
 
@@ -438,7 +442,7 @@ def _with_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], fix: Fix)
     unit = f.pass_unit
     shown = render(fix.value, unit) if fix.value is not None else main[2]
     extra = fix.changes[:-1]
-    text = _text_with(c, f, sheet, answers, shown)
+    text = _text_with(c, f, sheet, answers, shown, fix.value)
     if fix.field != f.pass_field or extra:
         why = (f"{f.pass_field} has no effect on this check while "
                + ", ".join(f"{p} is {_entered(p, not v, '')}" for p, v, _ in extra)
@@ -451,7 +455,8 @@ def _with_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], fix: Fix)
     text += (f" Checked: reviewed again with {entered}"
              f"{' (' + fix.note + ')' if fix.note else ''}, this check passes at its worst corner "
              f"(the solved value plus a {MARGIN:.1%} margin, rounded toward passing).")
-    return replace(f, pass_value=fix.value, pass_field=fix.field, mitigation=text,
+    return replace(f, pass_value=fix.value, pass_solved=f.pass_value, pass_field=fix.field,
+                   mitigation=text,
                    fix=tuple((p, t) for p, _, t in fix.changes))
 
 
@@ -462,9 +467,9 @@ def _no_fix(f: Finding, c: Any, sheet: Any, answers: dict[str, Any], solved: boo
         text += (f" No value of {field} alone was found that makes this check pass when the "
                  "design is reviewed again with it; the other levers named here remain.")
     else:
-        text += (f" No value of {field} alone can meet the limit here (the calculation gives no "
-                 "positive, finite value); the other levers named here remain.")
-    return replace(f, pass_value=None, mitigation=text, fix=())
+        text += (f" No value of {field} is offered: the calculation gives no positive, finite "
+                 "value of it that meets the limit; the other levers named here remain.")
+    return replace(f, pass_value=None, pass_solved=f.pass_value, mitigation=text, fix=())
 
 
 __all__ = ["verify", "find_fix", "round_toward", "with_fields", "MARGIN", "Fix"]

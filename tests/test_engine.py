@@ -75,7 +75,7 @@ def test_limit_exactly_at_threshold_passes(tmp_path):
 def test_limit_just_beyond_fails_with_text(tmp_path):
     f = finding(run(tmp_path, bus_max="14.01 V"), "test.bus-limit")
     assert f.outcome == "fail" and f.margin == pytest.approx(-0.01)
-    assert f.pass_value == 14.0 and f.pass_field == "source.v_max"
+    assert f.pass_solved == 14.0 and f.pass_field == "source.v_max"
     assert f.mitigation == "Lower the bus to 14 V; it is 14 V, margin -10 mV."
 
 

@@ -43,7 +43,7 @@ def test_creepage_threshold(creepage, outcome):
                 "isolation.creepage")
     assert (f.outcome, f.severity) == (outcome, "hazard")
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(5.0e-3)
+        assert f.pass_solved == pytest.approx(5.0e-3)
 
 
 @pytest.mark.parametrize("clearance,outcome", [("3 mm", "pass"), ("2.9 mm", "fail")])

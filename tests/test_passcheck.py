@@ -49,7 +49,7 @@ def _round_trip(review, source) -> int:
             continue
         if not f.fix:  # no verified value: none is shown, and the text says so
             assert f.pass_value is None, f.key
-            assert "No value of" in f.mitigation, (f.key, f.mitigation)
+            assert f"No value of {f.pass_field}" in f.mitigation, (f.key, f.mitigation)
             continue
         assert dict(f.fix)[f.pass_field], f.key
         again = _judge_again(_entered(source, dict(f.fix)), f, book)

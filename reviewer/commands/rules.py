@@ -137,7 +137,8 @@ def _explain(book, rule_id: str) -> int:
         out.write(f"{rule_id}: {gone.title}\nswitched off by {gone.origin}: {gone.reason}\n")
     else:
         out.write(f"{rule.id}: {rule.title}\n")
-        rows = [("area", rule.area), ("severity", rule.severity), ("kind", rule.kind),
+        rows = [("when failing", rule.fail_title or f"Not met: {rule.title}"),
+                ("area", rule.area), ("severity", rule.severity), ("kind", rule.kind),
                 ("for each", ", ".join(rule.each)), ("applies when", rule.applies or ""),
                 ("judges", _limit(rule)),
                 ("passes at", f"{rule.pass_.value} [{rule.pass_.unit}] for {rule.pass_.field}"
