@@ -5,7 +5,6 @@ from __future__ import annotations
 
 import json
 
-import pytest
 
 from reviewer.findings import Finding
 from tests.variants import example_review

@@ -93,7 +93,6 @@ def variant_design(example: str, changes: dict[str, Any]):
 def variant_review(name: str):
     """The review of the variant called ``name`` (cached: several tests read every finding)."""
     from reviewer.review import review_design
-    from reviewer.rulebook import load_rulebook
 
     _, example, changes = next(v for v in VARIANTS if v[0] == name)
     return review_design(variant_design(example, changes), f"{name}.toml", _book())
