@@ -17,7 +17,7 @@ from reviewer.margins import SLACK, Margins, margins, rule_names
 from reviewer.quantities import Run, Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
 from reviewer.sensitivity import METHOD, swings, wanted
-from reviewer.units import render
+from reviewer.shown import distinct, figure
 from reviewer.worstcase import runs_for
 
 __all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text", "corner_text"]
@@ -35,7 +35,8 @@ def _base(c: Compiled, outcome: str, **kw: Any) -> Finding:
         rule_id=r.id, subject=c.subject, area=r.area, title=c.title, severity=r.severity,
         outcome=outcome, why=" ".join(c.why.split()), reference=r.reference, basis=r.basis,
         unit=c.unit, relation=r.relation, fields=c.fields, origin=r.origin,
-        question=" ".join((r.ask or "").split()), assumptions=tuple(r.assumptions), **kw,
+        question=" ".join((r.ask or "").split()), assumptions=tuple(r.assumptions),
+        fail_title=c.fail_title, **kw,
     )
 
 
@@ -189,12 +190,15 @@ def render_text(text: str, scalars: dict[str, Any], c: Compiled, sheet: Sheet) -
         try:
             e = compile_expr(expr)
             if any(n not in scalars for n in e.names):
-                shown = "—"
+                shown = figure(None, "")
             else:
                 result = e.evaluate(scalars)
                 shown = _show(result, unit if unit is not None else _unit_of(expr, c, sheet))
+                if expr in ("value", "limit") and unit is None:  # tell them apart when close
+                    shown = distinct(scalars.get("value"), scalars.get("limit"),
+                                     c.unit)[expr == "limit"]
         except ValueError:
-            shown = "—"
+            shown = figure(None, "")
         out = out.replace(raw, shown, 1)
     return " ".join(out.split())
 
@@ -211,14 +215,7 @@ def _unit_of(expr: str, c: Compiled, sheet: Sheet) -> str:
 
 
 def _show(result: Any, unit: str) -> str:
-    if result is None:
-        return "—"
-    if isinstance(result, str):
-        return result
-    try:
-        return render(float(result), unit)
-    except (TypeError, ValueError):
-        return str(result)
+    return figure(result, unit)
 
 
 def _question(c: Compiled, answers: dict[str, Any]) -> Finding:

@@ -55,10 +55,27 @@ class Finding:
     sensitivity_method: str = ""
     spread: Spread | None = None  # yield over Monte Carlo samples, when drawn
 
+    fail_title: str = ""
+    """The problem, as the heading of a failing or open finding; "" when the rule gives none."""
+    pass_solved: float | None = None
+    """The pass value as the rule's ``pass`` expression solves it at the worst corner, before the
+    margin, rounding and re-review that give ``pass_value`` (see :mod:`reviewer.passcheck`)."""
+    fix: tuple[tuple[str, str], ...] = ()
+    """Field changes (path, text as a designer enters it) verified by re-review to make this
+    finding pass (see :mod:`reviewer.passcheck`); empty when none was found or none is needed."""
+
     @property
     def key(self) -> str:
         """Stable identity across revisions: rule id and subject."""
         return f"{self.rule_id}[{self.subject}]" if self.subject else self.rule_id
+
+    @property
+    def heading(self) -> str:
+        """The title for this outcome: the problem for a failing or open finding, the condition
+        that holds otherwise. A rule with no failing title shows "Not met: " before its title."""
+        if self.outcome in ("fail", "open"):
+            return self.fail_title or f"Not met: {self.title}"
+        return self.title
 
     @property
     def relative_margin(self) -> float | None:

@@ -6,10 +6,13 @@ from collections import Counter
 from dataclasses import dataclass
 from pathlib import Path
 
+from reviewer import cases
 from reviewer import record as rec
 from reviewer.design import Design, load_design
 from reviewer.engine import evaluate
 from reviewer.findings import SEVERITIES, Finding
+from reviewer.inputs import notices
+from reviewer.passcheck import verify
 from reviewer.quantities import Sheet, compute, with_all_runs
 from reviewer.rulebook.loader import Disabled, Rulebook, load_rulebook
 
@@ -34,6 +37,9 @@ class Review:
     record: rec.Record = rec.Record()
     disabled: tuple[Disabled, ...] = ()
     """Rules switched off by house files, each with its reason: every view shows them."""
+    notices: tuple[str, ...] = ()
+    """Sentences about the input: a field the design gives that no check uses (see
+    :mod:`reviewer.inputs`)."""
 
     def finding(self, key: str) -> Finding | None:
         return next((f for f in self.findings if f.key == key), None)
@@ -109,9 +115,12 @@ def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
     sheet = compute(design, focus=judged_names(book), combined=False)
-    findings = evaluate(book, sheet, answers_of(design, record))
+    answers = answers_of(design, record)
+    findings = cases.apply(evaluate(book, sheet, answers), book, sheet, answers)
+    findings = verify(findings, design, book, sheet, answers)
     sheet = with_all_runs(sheet)  # the sheet's extremes over every corner the rules were judged on
-    return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled))
+    return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled),
+                  notices(design, sheet, book))
 
 
 def review_file(path: str | Path, rule_files: list[Path] | None = None,

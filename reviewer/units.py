@@ -281,4 +281,6 @@ def render(value: float, unit: str, prec: int = 3) -> str:
         return f"{math.degrees(value):.{prec}g}°"
     if unit in ("°C", "K/W", "W/K"):
         return f"{value:.{prec}g} {unit}"
+    if unit == "m²":  # an SI prefix scales the metre, not the area: 3.31e-6 m² is 3.31 mm²
+        return f"{value * 1e6:.{prec}g} mm²"
     return Quantity(value, unit).render(prec=prec - 1)

@@ -34,7 +34,7 @@ def test_capacitance_threshold(cap, outcome):
     assert f.outcome == outcome
     assert f.limit == pytest.approx(10.0)
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(C_MIN, rel=1e-9)
+        assert f.pass_solved == pytest.approx(C_MIN, rel=1e-9)
         assert f.severity == "hazard"
 
 
@@ -78,7 +78,7 @@ def test_quasi_square_example_cannot_hold_the_gate():
     assert "7.44 ms" in f.mitigation
     # Q = 55 nC + (150 µA + 10 µA + 11.3 V/47 kΩ) × 7.444 ms + 5 nC over 1.3 V
     q = 55e-9 + (160e-6 + 11.3 / 47e3) * (134 / 360 * 20e-3) + 5e-9
-    assert f.pass_value == pytest.approx(q / 1.3, rel=1e-9)
+    assert f.pass_solved == pytest.approx(q / 1.3, rel=1e-9)
 
 
 @pytest.mark.parametrize("name", ["naive_bench_pchannel", "careful_12v_sine", "mains_output_transformer"])
@@ -111,7 +111,7 @@ def test_refresh_returns_the_charge_a_carrier_period_takes():
     assert (f.outcome, f.severity) == ("fail", "hazard")
     # the largest resistance that passes: t / (C · ln(1/(1 − Q/(C·ΔV))))
     q = 40e-9 + 100e-6 * 47.5e-6
-    assert f.pass_value == pytest.approx(2.5e-6 / (1e-6 * math.log(1 / (1 - q / 1.3e-6))), rel=1e-6)
+    assert f.pass_solved == pytest.approx(2.5e-6 / (1e-6 * math.log(1 / (1 - q / 1.3e-6))), rel=1e-6)
 
 
 def test_overmodulation_leaves_no_refresh():

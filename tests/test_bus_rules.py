@@ -39,7 +39,7 @@ def test_ripple_rating_threshold(rating, outcome):
     f = finding(review_text(design(rr=rating)), "bus.ripple-rating")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(7.0711, rel=1e-4)
+        assert f.pass_solved == pytest.approx(7.0711, rel=1e-4)
 
 
 @pytest.mark.parametrize("rating,outcome", [("14.8 V", "pass"), ("14.7 V", "fail")])
@@ -54,7 +54,7 @@ def test_capacitor_derating_threshold(rating, outcome):
     f = finding(review_text(design(vr=rating)), "bus.cap-derating")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(18.5)
+        assert f.pass_solved == pytest.approx(18.5)
 
 
 def test_capacitor_derating_does_not_apply_to_film():
@@ -71,7 +71,7 @@ def test_voltage_ripple_where_the_source_cannot_supply_it():
     assert f.limit == pytest.approx(0.6)
     assert f.outcome == "fail"
     # the capacitance that passes: 10 mF · 3.18310 / 0.6 = 53.05 mF
-    assert f.pass_value == pytest.approx(53.052e-3, rel=1e-4)
+    assert f.pass_solved == pytest.approx(53.052e-3, rel=1e-4)
     passed = review_text(design(kind="rectified_mains").replace('bulk = "10 mF"', 'bulk = "53.06 mF"'))
     assert finding(passed, "bus.voltage-ripple").outcome == "pass"
     # a battery supplies the pulsing current itself: not judged
@@ -95,7 +95,7 @@ def test_local_capacitance_threshold():
     assert finding(review_text(_careful(f"{c_edge * 1.001:.6g}")), "bus.local-capacitance").outcome == "pass"
     low = finding(review_text(_careful(f"{c_edge * 0.99:.6g}")), "bus.local-capacitance")
     assert low.outcome == "fail"
-    assert low.pass_value == pytest.approx(c_edge, rel=1e-6)
+    assert low.pass_solved == pytest.approx(c_edge, rel=1e-6)
 
 
 @pytest.mark.parametrize("name,expected", [

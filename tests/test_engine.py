@@ -75,8 +75,11 @@ def test_limit_exactly_at_threshold_passes(tmp_path):
 def test_limit_just_beyond_fails_with_text(tmp_path):
     f = finding(run(tmp_path, bus_max="14.01 V"), "test.bus-limit")
     assert f.outcome == "fail" and f.margin == pytest.approx(-0.01)
-    assert f.pass_value == 14.0 and f.pass_field == "source.v_max"
-    assert f.mitigation == "Lower the bus to 14 V; it is 14 V, margin -10 mV."
+    assert f.pass_solved == 14.0 and f.pass_field == "source.v_max"
+    # the verified pass value (14 V less a 0.5 % margin, rounded down) and a value shown with
+    # the digits that tell it from the 14 V limit
+    assert f.mitigation.startswith("Lower the bus to 13.9 V; it is 14.01 V, margin -10 mV. "
+                                   "Checked: reviewed again with source.v_max = 13.9 V")
 
 
 def test_flag(tmp_path):

@@ -28,7 +28,7 @@ def test_on_drive_at_the_rds_on_test_level(on, outcome):
     f = finding(review_text(bridge(("drive.low", "on_level", on))), "gate.vgs-on-spec[low]")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(10.0) and f.severity == "risk"
+        assert f.pass_solved == pytest.approx(10.0) and f.severity == "risk"
 
 
 @pytest.mark.parametrize("on, outcome", [('"10 V"', "pass"), ('"9.9 V"', "fail")])
@@ -71,7 +71,7 @@ def test_pull_resistor_power_threshold(r, outcome):
     f = finding(review_text(bridge(("drive.low", "pull_resistor", r))), "gate.pull-power[low]")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(2880.0)
+        assert f.pass_solved == pytest.approx(2880.0)
 
 
 @pytest.mark.parametrize("carrier, outcome", [('"5 kHz"', "pass"), ('"5.1 kHz"', "fail")])
@@ -83,7 +83,7 @@ def test_controller_pin_edge_threshold(carrier, outcome):
     assert f.outcome == outcome and f.value == pytest.approx(2e-6)
     if outcome == "fail":
         # 20 mA × 2 µs / (0.01 / 5.1 kHz) = 20.4 mA
-        assert f.pass_value == pytest.approx(20e-3 * 2e-6 / (0.01 / 5.1e3))
+        assert f.pass_solved == pytest.approx(20e-3 * 2e-6 / (0.01 / 5.1e3))
 
 
 def test_paralleled_devices_need_their_own_gate_resistors():
@@ -107,4 +107,4 @@ def test_example_designs(name, expected):
 def test_naive_p_channel_pull_resistor_power():
     # 25 V across 10 kΩ = 62.5 mW, over 50 % of 0.1 W; 25²/0.05 = 12.5 kΩ passes.
     f = finding(review_file("naive_bench_pchannel"), "gate.pull-power[high]")
-    assert f.value == pytest.approx(0.0625) and f.pass_value == pytest.approx(12.5e3)
+    assert f.value == pytest.approx(0.0625) and f.pass_solved == pytest.approx(12.5e3)

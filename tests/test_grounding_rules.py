@@ -26,7 +26,7 @@ def test_bounce_is_l_times_di_dt_at_the_worst_corner():
     assert f.value == pytest.approx(2e-9 * i_pk.hi / t.lo, rel=1e-6)
     assert f.outcome == "fail"
     # the inductance that passes: 0.4 V · t / ΔI
-    assert f.pass_value == pytest.approx(0.4 * t.lo / i_pk.hi, rel=1e-6)
+    assert f.pass_solved == pytest.approx(0.4 * t.lo / i_pk.hi, rel=1e-6)
 
 
 def test_bounce_threshold():

@@ -73,7 +73,7 @@ def test_creepage_threshold(creepage, outcome):
     f = finding(review_text(mains(creepage=f'"{creepage}"')), "isolation.creepage")
     assert (f.outcome, f.severity) == (outcome, "hazard")
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(5.06 * MM)
+        assert f.pass_solved == pytest.approx(5.06 * MM)
 
 
 @pytest.mark.parametrize("clearance,outcome", [("3 mm", "pass"), ("2.9 mm", "fail")])

@@ -65,7 +65,7 @@ def test_fuse_loading_threshold_by_standard(standard, at_limit):
     bad = finding(review_text(design(rating=f"{at_limit * 0.99} A", standard=standard)),
                   "protection.fuse-loading")
     assert bad.outcome == "fail"
-    assert bad.pass_value == pytest.approx(I_RMS / {"automotive": 0.8, "ul248": 0.75,
+    assert bad.pass_solved == pytest.approx(I_RMS / {"automotive": 0.8, "ul248": 0.75,
                                                     "iec60127": 1.0}[standard])
 
 
@@ -85,7 +85,7 @@ def test_wire_protected_threshold(wire, temp, rating, outcome):
 
 def test_wire_protected_mitigation_names_the_wire():
     f = finding(review_text(design(rating="25 A", wire="12 AWG")), "protection.wire-protected")
-    assert f.pass_value == pytest.approx(20.0)
+    assert f.pass_solved == pytest.approx(20.0)
     assert "10 AWG" in f.mitigation  # 25 A needs 10 AWG (30 A by 240.4(D))
 
 

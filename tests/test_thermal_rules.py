@@ -67,10 +67,10 @@ def test_heatsink_figure_round_trip():
     text = bridge(("switch.low", "tj_max", '"55 °C"'))
     f = finding(review_text(text), "thermal.junction[low]")
     assert f.outcome == "fail"
-    again = bridge(("switch.low", "tj_max", '"55 °C"'), ("switch.low", "rth_ja", f'"{f.pass_value!r} K/W"'))
+    again = bridge(("switch.low", "tj_max", '"55 °C"'), ("switch.low", "rth_ja", f'"{f.pass_solved!r} K/W"'))
     g = finding(review_text(again), "thermal.junction[low]")
     assert g.outcome == "pass" and g.value == pytest.approx(30.0, abs=1e-3)
-    assert expected_tj(f.pass_value) == pytest.approx(30.0, abs=1e-3)
+    assert expected_tj(f.pass_solved) == pytest.approx(30.0, abs=1e-3)
 
 
 def test_heatsink_figure_with_a_case_path():
@@ -82,7 +82,7 @@ def test_heatsink_figure_with_a_case_path():
     # same 40 K/W in total, so the same T_j and the same total; the sink figure is 3 K/W less
     assert f.value == pytest.approx(expected_tj(40.0), abs=1e-3)
     from reviewer.units import render
-    assert render(f.pass_value - 3.0, "K/W") in f.mitigation
+    assert render(f.pass_solved - 3.0, "K/W") in f.mitigation
 
 
 def test_thermal_runaway_is_a_hazard():
@@ -106,7 +106,7 @@ def test_paralleled_device_current_with_sharing_allowance(scale, outcome):
     f = finding(review_text(text), "thermal.device-current[low]")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(3 / scale, rel=1e-6)  # count × value / limit
+        assert f.pass_solved == pytest.approx(3 / scale, rel=1e-6)  # count × value / limit
 
 
 @pytest.mark.parametrize("name, expected", [

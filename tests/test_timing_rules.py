@@ -47,7 +47,7 @@ def test_shoot_through_threshold(scale, outcome):
     if outcome == "fail":
         assert f.value == pytest.approx(NEEDED * 0.98, rel=1e-6)
         assert render(NEEDED * 0.02, "s") in f.mitigation          # the overlap
-        assert f.pass_value == pytest.approx(1.5 * NEEDED, rel=1e-6)
+        assert f.pass_solved == pytest.approx(1.5 * NEEDED, rel=1e-6)
         assert f.severity == "hazard"
 
 
@@ -69,7 +69,7 @@ def test_pull_resistor_only_turn_off_and_its_mitigation_values():
     assert f.outcome == "fail"
     assert f.value == pytest.approx(1e-6) and f.limit == pytest.approx(t_off - TD_ON, rel=1e-6)
     assert render(t_off - 1e-6 - TD_ON, "s") in f.mitigation     # the overlap
-    assert f.pass_value == pytest.approx(1.5 * (t_off - TD_ON), rel=1e-6)
+    assert f.pass_solved == pytest.approx(1.5 * (t_off - TD_ON), rel=1e-6)
     assert "10 kΩ pull resistor" in f.mitigation
     # Largest turn-off resistance for 1 µs: (1 µs/1.5 + 5.754 ns)/(6.1059 ns/Ω) = 110.1 Ω;
     # smallest sink: (2 nF·9 V + 10 nC)/(1 µs/1.5 + 5.754 ns) = 28 nC/672.4 ns = 41.6 mA.
@@ -88,7 +88,7 @@ def test_naive_bench_reports_turn_off_shoot_through_and_what_would_pass():
         assert "pull resistor, its only turn-off path" in f.mitigation
         # tens of microseconds through 10 kΩ (gate-charge method with R_off = the pull resistor)
         assert f.value == 0.0 and 10e-6 < f.limit < 1e-3
-        assert f.pass_value == pytest.approx(1.5 * f.limit, rel=1e-9)
+        assert f.pass_solved == pytest.approx(1.5 * f.limit, rel=1e-9)
         assert "must be at most" in f.mitigation and "active sink of at least" in f.mitigation
 
 
@@ -98,7 +98,7 @@ def test_dead_time_excess_threshold(dead, outcome):
     f = finding(review_text(bridge(("timing", "dead_time", dead))), "timing.dead-time-excess")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(750e-9)
+        assert f.pass_solved == pytest.approx(750e-9)
 
 
 def test_dvdt_induced_voltage_against_ode_and_threshold():
@@ -122,7 +122,7 @@ def test_dvdt_induced_voltage_against_ode_and_threshold():
                 "timing.dvdt-turn-on[low]")
     assert f.outcome == "fail"
     # pass: R_hold ≤ limit/(C_gd·dv/dt) (linear envelope, conservative)
-    assert f.pass_value == pytest.approx(f.limit / (cgd * dvdt))
+    assert f.pass_solved == pytest.approx(f.limit / (cgd * dvdt))
 
 
 @pytest.mark.parametrize("scale, outcome", [(1.0, "pass"), (1.02, "fail")])
@@ -187,7 +187,7 @@ def test_driver_delays_and_resolution_eat_the_dead_time():
                            ("timing", "delay_mismatch", '"5 ns"')))
     f = finding(r, "timing.shoot-through[low]")
     assert f.outcome == "fail"
-    assert f.pass_value == pytest.approx(1.5 * NEEDED + 5e-9, rel=1e-6)
+    assert f.pass_solved == pytest.approx(1.5 * NEEDED + 5e-9, rel=1e-6)
 
 
 def test_shared_signal_makes_dead_time_zero_everywhere():

@@ -73,4 +73,4 @@ def test_flux_threshold(b_max, outcome):
     assert f.outcome == outcome
     if outcome == "fail":
         # N scales the flux as 1/N: 20 · 0.75 / 0.749 turns
-        assert f.pass_value == pytest.approx(20 * 0.75 / 0.749, rel=1e-4)
+        assert f.pass_solved == pytest.approx(20 * 0.75 / 0.749, rel=1e-4)

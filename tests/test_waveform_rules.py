@@ -126,7 +126,7 @@ def test_thd_threshold_and_its_mitigation():
     assert get(review(design(kind="spwm_bipolar", carrier="2 kHz", thd=repr(thd * 0.999))),
                "waveform.thd").outcome == "fail"
     # the pass value is an inductance with the same √(L/C): L/C = 1 mH / 10 µF = 100 Ω²
-    l_new = f.pass_value
+    l_new = f.pass_solved
     c_new = l_new / 100.0
     fixed = review(design(kind="spwm_bipolar", carrier="2 kHz", l=repr(l_new), c=repr(c_new)))
     # the solve leaves out the 50 mΩ winding resistance and components below 10⁻⁵ of the
@@ -160,7 +160,7 @@ def test_corner_at_ten_times_the_output(l_factor, outcome):
     assert f.outcome == outcome
     if outcome == "fail":
         # same capacitor, corner back at 500 Hz: L·(ratio/10)² = the 10.13 mH again
-        assert f.pass_value == pytest.approx(l_ / l_factor, rel=1e-9)
+        assert f.pass_solved == pytest.approx(l_ / l_factor, rel=1e-9)
 
 
 @pytest.mark.parametrize("kind, carrier, outcome", [
@@ -183,7 +183,7 @@ def test_inductor_saturation_threshold():
     assert 1.9 < peak < 1.9 * 1.1 + 0.15
     assert get(review(design(isat=repr(peak))), "waveform.inductor-saturation").outcome == "pass"
     f = get(review(design(isat=repr(peak * 0.99))), "waveform.inductor-saturation")
-    assert f.outcome == "fail" and f.pass_value == pytest.approx(peak)
+    assert f.outcome == "fail" and f.pass_solved == pytest.approx(peak)
 
 
 def test_capacitor_voltage_threshold():
@@ -242,7 +242,7 @@ def test_audible_threshold(kind, carrier, outcome):
     f = get(review(design(kind=kind, carrier=carrier, l=l_)), "waveform.audible")
     assert f.outcome == outcome
     if outcome == "fail":
-        assert f.pass_value == pytest.approx(10e3 if kind == "spwm_unipolar" else 20e3)
+        assert f.pass_solved == pytest.approx(10e3 if kind == "spwm_unipolar" else 20e3)
 
 
 def test_square_wave_rules_that_do_not_apply():

@@ -137,7 +137,8 @@ def _explain(book, rule_id: str) -> int:
         out.write(f"{rule_id}: {gone.title}\nswitched off by {gone.origin}: {gone.reason}\n")
     else:
         out.write(f"{rule.id}: {rule.title}\n")
-        rows = [("area", rule.area), ("severity", rule.severity), ("kind", rule.kind),
+        rows = [("when failing", rule.fail_title or f"Not met: {rule.title}"),
+                ("area", rule.area), ("severity", rule.severity), ("kind", rule.kind),
                 ("for each", ", ".join(rule.each)), ("applies when", rule.applies or ""),
                 ("judges", _limit(rule)),
                 ("passes at", f"{rule.pass_.value} [{rule.pass_.unit}] for {rule.pass_.field}"
@@ -175,4 +176,29 @@ def _lint(args: argparse.Namespace, start: Path) -> int:
         layer = next(x for x in book.layers if Path(x.file).resolve() == path.resolve())
         print(f"{path}: ok (profile {own.profile}: adds {len(layer.added)}, changes "
               f"{len(layer.changed)}, switches off {len(layer.disabled)})")
+        for rule in own.parsed.rule:
+            for note in rule_notes(rule):
+                print(f"  {rule.id}: {note}")
     return 0
+
+
+CLAUSE = r"(§|\bclause\b|\btable\b|\bsection\b|\bannex\b|\bart(icle)?\.?\s|\bfig(ure)?\.?\s|\beq(uation)?\.?\s)"
+
+
+def rule_notes(rule) -> list[str]:
+    """What a rule lacks that a reader needs: a failing title, a source, a clause for a standard.
+
+    Notes, not errors: a house rule with one title is headed "Not met: <title>" when it fails.
+    """
+    import re
+
+    notes = []
+    if not rule.fail_title:
+        notes.append(f"no fail_title: a failing finding is headed 'Not met: {rule.title}'")
+    elif rule.fail_title.strip().lower() == rule.title.strip().lower():
+        notes.append("fail_title is the same as title: state the problem instead")
+    if not rule.reference.strip():
+        notes.append("no reference: name the work, edition and section, or the practice")
+    elif rule.basis == "standard" and not re.search(CLAUSE, rule.reference, re.IGNORECASE):
+        notes.append("basis 'standard' without a clause or table in the reference")
+    return notes

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from reviewer.findings import BASES, Finding
+from reviewer.shown import distinct
 from reviewer.units import render
 
 LABEL = {
@@ -75,9 +76,9 @@ def mark(key: str) -> str:
 
 
 def title(f: Finding) -> str:
-    """The heading a view gives a finding (one place to change when findings get a failing
-    title of their own)."""
-    return f.title
+    """The heading a view gives a finding: the problem for a failing or open finding, the
+    condition that holds for a passed one (:attr:`Finding.heading`)."""
+    return f.heading
 
 
 OUTCOME_WORD = {"fail": "fail", "pass": "pass", "needs_data": "needs data", "open": "open",
@@ -97,14 +98,14 @@ def computed(f: Finding) -> str:
     """'28.8 V (typical 24 V)' — the worst-corner value, with the typical one when it differs."""
     if f.value is None:
         return ""
-    text = num(f.value, f.unit)
+    text = distinct(f.value, f.limit, f.unit)[0] if f.limit is not None else num(f.value, f.unit)
     if f.value_typ is not None and num(f.value_typ, f.unit) != text:
         text += f" (typical {num(f.value_typ, f.unit)})"
     return text
 
 
 def limit(f: Finding) -> str:
-    return "" if f.limit is None else f"{f.relation} {num(f.limit, f.unit)}"
+    return "" if f.limit is None else f"{f.relation} {distinct(f.value, f.limit, f.unit)[1]}"
 
 
 def margin(f: Finding) -> str:

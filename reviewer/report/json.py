@@ -67,6 +67,8 @@ def to_data(r: Review) -> dict[str, Any]:
         item = asdict(f)
         item["key"] = f.key
         item["relation"] = relation(f.relation)
+        item["heading"] = f.heading
+        item["fix"] = [{"field": p, "value": v} for p, v in f.fix]
         item["corner"] = [{"field": p, "at": end} for p, end in f.corner]
         item["needs"] = list(f.needs)
         item["fields"] = list(f.fields)
@@ -99,6 +101,7 @@ def to_data(r: Review) -> dict[str, Any]:
         "record": record,
         "disabled_rules": [{"rule": x.rule_id, "title": x.title, "reason": x.reason,
                             "origin": x.origin} for x in r.disabled],
+        "notices": list(r.notices),
         "sheet": sheet,
         "missing": [{"name": m.name, "needs": list(m.needs)} for m in r.sheet.missing.values()
                     if not m.name.startswith("design.")],

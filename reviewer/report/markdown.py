@@ -88,19 +88,21 @@ def _one(r: Review, when: str, pics: Pictures) -> str:
         out += [f"| `{x.rule_id}` | {_cell(x.title)} | {_cell(x.reason)} | {_cell(x.origin)} |"
                 for x in r.disabled]
         out.append("")
+    if r.notices:
+        out += ["## Notices on the input", "", *[f"- {_cell(n)}" for n in r.notices], ""]
     missing = r.by_outcome("needs_data")
     if missing:
         out += ["## Not checked: needs data", "",
                 "These checks could not run: the design does not give a value they need.", "",
                 "| Check | Title | Give |", "|---|---|---|"]
-        out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.needs(f))} |" for f in missing]
+        out += [f"| `{f.key}` | {_cell(f.heading)} | {_cell(common.needs(f))} |" for f in missing]
         out.append("")
     passed = r.by_outcome("pass")
     if passed:
         y = any(f.spread is not None for f in passed)  # a Yield column when samples were drawn
         out += ["## Passed checks", "", "| Check | Title | Computed | Limit | Margin |"
                 + (" Yield |" if y else ""), "|---|---|---|---|---|" + ("---|" if y else "")]
-        out += [f"| `{f.key}` | {_cell(f.title)} | {_cell(common.computed(f) or 'holds')} | "
+        out += [f"| `{f.key}` | {_cell(common.title(f))} | {_cell(common.computed(f) or 'holds')} | "
                 f"{_cell(common.limit(f))} | {_cell(common.margin(f))} |"
                 + (f" {yield_cell(f)} |" if y else "") for f in passed]
         out.append("")

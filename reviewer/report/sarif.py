@@ -82,11 +82,11 @@ def _location(index: int, uri: str, line: int | None, text: str = "") -> dict[st
 
 def _message(f: Finding) -> str:
     if f.outcome == "needs_data":
-        return (f"{f.title}: not checked, needs data: give "
+        return (f"{common.title(f)}: not checked, needs data: give "
                 f"{common.needs(f) or 'the missing values'}.")
     if f.outcome == "open":
-        return f"{f.title}: open question, not yet answered: {f.question}"
-    parts = [f"{common.label(f)}: {f.title}"]
+        return f"{common.title(f)}: open question, not yet answered: {f.question}"
+    parts = [f"{common.label(f)}: {common.title(f)}"]
     if f.value is not None:
         parts.append(f"computed {common.computed(f)}, limit {common.limit(f)}, "
                      f"margin {common.margin(f)}")

@@ -130,12 +130,17 @@ def _one(console, r: Review, show_passed: bool) -> None:
         for x in r.disabled:
             console.print(Text(f"  {x.rule_id}: {x.title} — {x.reason} (by {x.origin})"))
         console.print()
+    if r.notices:
+        console.print(Text("Notices on the input", style="bold"))
+        for n in r.notices:
+            console.print(Text(f"  {n}"))
+        console.print()
     missing = r.by_outcome("needs_data")
     if missing:
         console.print(Text(f"{common.mark('needs_data')} Needs data (not checked)",
                            style=_style("needs_data")))
         for f in missing:
-            console.print(Text(f"  {f.key}: {f.title} — give {common.needs(f)}"))
+            console.print(Text(f"  {f.key}: {f.heading} — give {common.needs(f)}"))
         console.print()
     questions = r.by_outcome("open")
     if questions:

@@ -50,6 +50,9 @@ class Compiled:
     mitigation: str
     why: str
     title: str
+    fail_title: str = ""
+    cases: tuple[tuple[Expr | None, str | None, str], ...] = ()
+    """(condition, absent quantity, text) for each of the rule's mitigation cases, in order."""
 
 
 @dataclass(frozen=True)
@@ -576,7 +579,25 @@ def compile_rule(rule: Rule) -> list[Compiled]:
         for f in rule.fields + ([rule.pass_.field] if rule.pass_ and rule.pass_.field else []):
             if sub(f) not in design_paths:
                 problems.append((f"unknown design field {sub(f)!r}{suggest(sub(f), design_paths)}", "fields"))
-        for key, text in (("mitigation", rule.mitigation), ("why", rule.why), ("title", rule.title)):
+        if rule.pass_ is not None and rule.pass_.field and sub(rule.pass_.field) in design_paths:
+            field_unit = names.get(f"design.{sub(rule.pass_.field)}", "")
+            if dimension_of(field_unit) != dimension_of(rule.pass_.unit):
+                problems.append((f"the pass value is in {rule.pass_.unit or 'no unit'!r}, but its "
+                                 f"field {sub(rule.pass_.field)!r} is in {field_unit or 'no unit'!r}: "
+                                 "a pass value is a value for its field", "pass"))
+        cases = []
+        for k, case in enumerate(rule.cases):
+            key = f"cases.{k}"
+            when = comp(case.when, key, SPECIAL | {"margin"})
+            typed(when, key, "flag")
+            absent = sub(case.absent) if case.absent is not None else None
+            if absent is not None and absent not in names:
+                problems.append((f"unknown quantity {absent!r}{suggest(absent, set(names))}", key))
+            cases.append((when, absent, sub(case.text)))
+        texts = [("mitigation", rule.mitigation), ("why", rule.why), ("title", rule.title),
+                 ("fail_title", rule.fail_title)]
+        texts += [(f"cases.{k}", case.text) for k, case in enumerate(rule.cases)]
+        for key, text in texts:
             for ph in placeholders(sub(text)):
                 e = comp(ph[0], key, SPECIAL | {"pass_value", "margin", "subject"})
                 if e is not None:
@@ -586,7 +607,7 @@ def compile_rule(rule: Rule) -> list[Compiled]:
                         problems.append((f"in {{{ph[0]}}}: {err}", key))
         out.append(Compiled(rule, subject, applies, value, limit, limit_const, fails, pass_value,
                             params, param_units, unit, tuple(sub(f) for f in rule.fields), sub(rule.mitigation),
-                            sub(rule.why), sub(rule.title)))
+                            sub(rule.why), sub(rule.title), sub(rule.fail_title), tuple(cases)))
     if problems:
         raise _RuleProblem(list(dict.fromkeys(problems)))
     return out

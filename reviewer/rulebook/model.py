@@ -31,11 +31,38 @@ class PassValue(BaseModel):
     field: str = Field("", description="The design field this value is for (for what-if changes).")
 
 
+class Case(BaseModel):
+    """A mitigation text for one situation, used instead of the rule's ``mitigation`` when it holds.
+
+    Where a figure the mitigation would show is absent, infinite, negative or otherwise
+    non-physical, a case says what that means and which lever works. The first case that holds
+    at the finding's worst corner is used.
+    """
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+    when: str | None = Field(None, description="Condition over the rule's names (as `applies`), "
+                             "judged at the worst corner.")
+    absent: str | None = Field(None, description="A quantity name: the case holds when it could "
+                               "not be computed for this design.")
+    text: str = Field(description="The mitigation for this case, with {placeholders}.")
+
+    @model_validator(mode="after")
+    def _one(self) -> "Case":
+        if (self.when is None) == (self.absent is None):
+            raise ValueError("a case has exactly one of 'when' (a condition) or 'absent' "
+                             "(a quantity name)")
+        return self
+
+
 class Rule(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True)
 
     id: str = Field(description="Dotted slug, stable once released: 'stress.vds-rating'.")
-    title: str
+    title: str = Field(description="The condition that holds when the rule passes, as a fact: "
+                       "'Fuse protects the supply wire'.")
+    fail_title: str = Field("", description="The problem, as a failing or open finding's "
+                            "heading: 'Fuse does not protect the supply wire'. Without it the "
+                            "views show 'Not met: ' before the title.")
     area: str = ""
     severity: Literal["hazard", "risk", "advice"]
     each: list[str] = Field(default_factory=list, description="Subjects, substituted for {each}.")
@@ -50,6 +77,8 @@ class Rule(BaseModel):
     pass_: PassValue | None = Field(None, alias="pass")
     why: str
     mitigation: str = ""
+    cases: list[Case] = Field(default_factory=list, description="Mitigation texts for "
+                              "situations where the mitigation's figures would mean nothing.")
     reference: str = ""
     basis: Literal["standard", "book", "library", "practice", "memory"] = "practice"
     fields: list[str] = Field(default_factory=list, description="Design fields the finding is about.")
@@ -115,6 +144,7 @@ class Override(BaseModel):
     params: dict[str, str | float] = Field(default_factory=dict)
     applies: str | None = Field(None, description="New condition under which the rule applies.")
     title: str | None = None
+    fail_title: str | None = None
     why: str | None = None
     mitigation: str | None = None
     reference: str | None = None
@@ -125,7 +155,8 @@ class Override(BaseModel):
     def changes(self) -> dict[str, object]:
         """The keys this override sets, as a rule's keys (pass under its alias)."""
         out: dict[str, object] = {}
-        for key in ("severity", "at_most", "at_least", "applies", "title", "why", "mitigation",
+        for key in ("severity", "at_most", "at_least", "applies", "title", "fail_title", "why",
+                    "mitigation",
                     "reference", "basis"):
             value = getattr(self, key)
             if value is not None:
@@ -186,4 +217,4 @@ class RuleFile(BaseModel):
         return self
 
 
-__all__ = ["Rule", "RuleFile", "PassValue", "Override", "Disable", "SEVERITIES", "BASES"]
+__all__ = ["Case", "Rule", "RuleFile", "PassValue", "Override", "Disable", "SEVERITIES", "BASES"]
