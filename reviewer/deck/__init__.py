@@ -89,13 +89,17 @@ class _Lines:
         self.lines: list[str] = []
 
     def comment(self, text: str = "") -> None:
-        import textwrap
-
-        lines = textwrap.wrap(_ascii(text), width=_WIDTH - 4)
-        if not lines:
+        words = _ascii(text).split()
+        if not words:
             self.lines.append("*")
-        for i, line in enumerate(lines):
-            self.lines.append(("* " if i == 0 else "*   ") + line)
+            return
+        line, room = "*", _WIDTH
+        for w in words:
+            if len(line) + 1 + len(w) > room and line not in ("*", "*  "):
+                self.lines.append(line)
+                line = "*  "
+            line += " " + w
+        self.lines.append(line)
 
     def element(self, line: str, note: str = "") -> None:
         if note:
@@ -115,10 +119,24 @@ class _Lines:
         return "\n".join(self.lines) + "\n"
 
 
-def _unit(x: float, unit: str) -> str:
-    from reviewer.units import render
+_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "u"),
+             (1e-9, "n"), (1e-12, "p"), (1e-15, "f"))
+_UNITS = {"Ω": "ohm"}
 
-    return _ascii(render(x, unit))
+
+def _unit(x: float, unit: str) -> str:
+    """A value in engineering notation for a comment line, in ASCII (``4.7 kohm``, ``10 uF``)."""
+    u = _UNITS.get(unit, unit)
+    if x is None:
+        return "not given"
+    if not math.isfinite(x):
+        return "infinite" if x > 0 else "minus infinite"
+    if x == 0:
+        return f"0 {u}".strip()
+    for scale, prefix in _PREFIXES:
+        if abs(x) >= scale * 0.9995:
+            break
+    return f"{x / scale:.3g} {prefix}{u}".strip()
 
 
 # ------------------------------------------------------------------------------------------
@@ -523,7 +541,8 @@ def _filter(out: _Lines, v: Values) -> tuple[BridgeEdges, int, float, float | No
                 f"{settle} to settle, the last one to measure. Each edge ramps over "
                 f"{_unit(2 * h, 's')}, centred on it, so every pulse keeps its volt-seconds. The "
                 "full-bridge output is drawn as one source to ground: the filter sees v_ab.")
-    out.continued("Vab ab 0 AC 1 PWL(", [f"{tnum(t)} {num(x)}" for t, x in pts] + [")"])
+    level = {x: num(x) for x in {x for _, x in pts}}
+    out.continued("Vab ab 0 AC 1 PWL(", ["%.12g %s" % (t, level[x]) for t, x in pts] + [")"])
     l_f, c_f = v.design("filter.inductance"), v.design("filter.capacitance")
     dcr = v.design("filter.inductor_dcr")
     if l_f:
@@ -669,13 +688,16 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
 
     out.blank()
     out.comment("--- Analyses " + "-" * 70)
+    out.element(".options method=gear",
+                "Gear integration: the leg's picosecond time constants (milliohm channels across "
+                "picofarads) make the trapezoidal rule ring and crawl.")
     fc = edges.carrier or f0
     f_lc = v.get("filter.corner") or fc
     cards = {
         "leg": (f".tran {num(t['step'])} {num(t['stop'])} 0 {num(t['step'])}",
                 "leg: one commutation each way, the high side turning on after the low side "
                 "turns off, then back"),
-        "filter": (f".tran {num(1 / (fc * 50))} {num(measure[1])} 0 {num(1 / (fc * 50))}",
+        "filter": (f".tran {num(1 / (fc * 20))} {num(measure[1])} 0 {num(1 / (fc * 20))}",
                    f"filter: the PWL bridge voltage into the filter and load; measure over "
                    f"{_unit(measure[0], 's')} .. {_unit(measure[1], 's')} (whole output periods "
                    "after settling)"),
