@@ -11,10 +11,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-
-import numpy as np
+from typing import TYPE_CHECKING
 
 from reviewer.physics import waveform as wf
+
+if TYPE_CHECKING:
+    import numpy as np
 
 
 @dataclass(frozen=True)
@@ -40,8 +42,8 @@ class BridgeEdges:
     period: float
     periods: int
     carrier: float | None
-    times: np.ndarray
-    levels: np.ndarray
+    times: "np.ndarray"
+    levels: "np.ndarray"
     level0: float
 
 
@@ -79,6 +81,8 @@ def bridge_edges(kind: str, f0: float, *, index: float | None, carrier: float | 
     Holmes & Lipo, *Pulse Width Modulation for Power Converters*, 2003, ch. 3 and 5; Mohan,
     Undeland & Robbins, *Power Electronics*, 3rd ed., 2003, ch. 8 (blanking time).
     """
+    import numpy as np
+
     (aa, ab), (ba, bb), q, fc = wf.leg_intervals(kind, f0, index=index, carrier=carrier,  # type: ignore[arg-type]
                                                  notch=notch)
     period = q / f0
@@ -88,7 +92,7 @@ def bridge_edges(kind: str, f0: float, *, index: float | None, carrier: float | 
         a, b, full = wf._union_periodic(s, e, period)
         a, b, full = wf._drop_short(a, b, full, period, min_pulse)
 
-        def current_sign(t: np.ndarray, sign: float = sign) -> np.ndarray:
+        def current_sign(t: "np.ndarray", sign: float = sign) -> "np.ndarray":
             return np.sign(sign * np.cos(w0 * t - current_lag))
 
         a, b, full = wf._apply_dead_time(a, b, full, period, current_sign,
@@ -118,6 +122,8 @@ def ramp_half_width(edges: BridgeEdges, longest: float = 5e-9) -> float:
     (including the one across the window's end), so that ramps never overlap. A ramp centred
     on the edge keeps each pulse's volt-seconds.
     """
+    import numpy as np
+
     if edges.times.size == 0:
         return longest
     gaps = np.diff(np.append(edges.times, edges.times[0] + edges.period))
@@ -145,6 +151,8 @@ def pwl_points(edges: BridgeEdges, v_bus: float, windows: int,
     list of (float, float)
         ``(time [s], voltage [V])``, times strictly increasing.
     """
+    import numpy as np
+
     before = np.concatenate([[edges.level0], edges.levels[:-1]]) * v_bus
     after = edges.levels * v_bus
     pts: list[tuple[float, float]] = []
