@@ -508,43 +508,69 @@ def _edges(v: Values) -> BridgeEdges:
         min_pulse=v.design("modulation.min_pulse") or 0.0)
 
 
-def _settle_windows(v: Values, period: float) -> int:
-    """Whole windows to let the filter settle: eight of its slowest time constants, at least one."""
-    f_lc, q = v.get("filter.corner"), v.get("filter.q_full_load")
-    if not f_lc or not q or not math.isfinite(q):
-        return 2
-    w0 = 2 * math.pi * f_lc
-    if q >= 0.5:
-        tau = 2 * q / w0
-    else:
-        a = 1 / (2 * q)
-        tau = 1 / (w0 * (a - math.sqrt(a * a - 1)))
-    return min(max(1, math.ceil(8 * tau / period)), 20)
+def _slowest_time_constant(l_f: float, c_f: float, dcr: float, r_load: float | None,
+                           l_load: float, rd: float | None, cd: float | None) -> float | None:
+    """The filter's slowest time constant, 1 / min |Re p| over the poles of v_out / v_ab [s].
+
+    Analysis setup only (how long to let the transient settle), from the deck's own elements:
+    H = 1 / (1 + Z_s·Y_p) with Z_s = r_L + sL and Y_p = sC + Y_d + Y_load written as
+    polynomials in s.
+    """
+    from numpy.polynomial import polynomial as P
+
+    num, den = [0.0, c_f], [1.0]  # Y_p = num / den, ascending powers of s
+
+    def add(n2: list[float], d2: list[float]) -> None:
+        nonlocal num, den
+        num = P.polyadd(P.polymul(num, d2), P.polymul(n2, den))
+        den = P.polymul(den, d2)
+
+    if rd:
+        add([0.0, cd], [1.0, cd * rd]) if cd else add([1.0], [rd])
+    if r_load is not None:
+        add([1.0], [r_load, l_load])
+    poles = P.polyroots(P.polyadd(den, P.polymul([dcr, l_f], num)))
+    rates = [abs(p.real) for p in poles if p.real < 0]
+    return 1 / min(rates) if rates and len(rates) == len(poles) else None
 
 
-def _filter(out: _Lines, v: Values) -> tuple[BridgeEdges, int, float, float | None]:
+def _filter(out: _Lines, v: Values, settling: bool) -> tuple[BridgeEdges, float]:
     out.blank()
     out.comment("--- Output filter and load, driven by the bridge voltage " + "-" * 30)
     edges = _edges(v)
     v_nom = v.need("op.bus_nom", "the bridge voltage's level")
-    settle = _settle_windows(v, edges.period)
-    windows = settle + 1
+    l_f, c_f = v.design("filter.inductance") or 0.0, v.design("filter.capacitance") or 0.0
+    dcr = v.design("filter.inductor_dcr") or 0.0
+    rd, cd = v.design("filter.damping_resistance"), v.design("filter.damping_capacitance")
+    r_load, l_load = _load(v)
     h = ramp_half_width(edges)
-    pts = pwl_points(edges, v_nom, windows, h)
     kind = v.design("modulation.kind")
     m = v.design("modulation.index")
     what = f"{kind}" + (f", index {m:.4g}" if m is not None else "") + (
         f", carrier {_unit(edges.carrier, 'Hz')}" if edges.carrier else "")
+    settle = 0.0
+    if settling:
+        tau = _slowest_time_constant(l_f, c_f, dcr, r_load, l_load, rd, cd) if l_f and c_f \
+            else None
+        limit = 4 * edges.period
+        settle = limit if tau is None else min(8 * tau, limit)
+        span = (f"{_unit(settle, 's')} to settle (8 x the filter's slowest time constant, "
+                f"{_unit(tau, 's')}" + (", capped at four windows" if 8 * tau > limit else "")
+                + ")" if tau is not None else
+                f"{_unit(settle, 's')} to settle (four windows: no decaying time constant found)")
+        span += f", then one window of {edges.periods} output period(s) to measure"
+    else:
+        span = (f"one window of {edges.periods} output period(s); the filter starts from rest, "
+                "so its first milliseconds are a start-up transient (`reviewer deck --analysis "
+                "filter` writes the deck with time to settle first)")
+    pts = pwl_points(edges, v_nom, settle, 1, h)
     out.comment(f"The bridge voltage v_ab the review's spectrum was computed from ({what}, at "
                 f"op.bus_nom = {_unit(v_nom, 'V')}, dead time by the current's direction, "
-                f"short pulses dropped), {windows} windows of {edges.periods} output period(s): "
-                f"{settle} to settle, the last one to measure. Each edge ramps over "
+                f"short pulses dropped): {span}. Each edge ramps over "
                 f"{_unit(2 * h, 's')}, centred on it, so every pulse keeps its volt-seconds. The "
                 "full-bridge output is drawn as one source to ground: the filter sees v_ab.")
     level = {x: num(x) for x in {x for _, x in pts}}
     out.continued("Vab ab 0 AC 1 PWL(", ["%.12g %s" % (t, level[x]) for t, x in pts] + [")"])
-    l_f, c_f = v.design("filter.inductance"), v.design("filter.capacitance")
-    dcr = v.design("filter.inductor_dcr")
     if l_f:
         nxt = "lf" if dcr else "out"
         out.element(f"Lf ab {nxt} {num(l_f)}", f"Filter inductor, filter.inductance = "
@@ -557,7 +583,6 @@ def _filter(out: _Lines, v: Values) -> tuple[BridgeEdges, int, float, float | No
     if c_f:
         out.element(f"Cf out 0 {num(c_f)}",
                     f"Filter capacitor, filter.capacitance = {_unit(c_f, 'F')} (ideal).")
-    rd, cd = v.design("filter.damping_resistance"), v.design("filter.damping_capacitance")
     if rd:
         if cd:
             out.element(f"Rd out dmp {num(rd)}", f"Damping branch: filter.damping_resistance = "
@@ -567,7 +592,6 @@ def _filter(out: _Lines, v: Values) -> tuple[BridgeEdges, int, float, float | No
         else:
             out.element(f"Rd out 0 {num(rd)}",
                         f"Damping resistor, filter.damping_resistance = {_unit(rd, 'Ω')}.")
-    r_load, l_load = _load(v)
     ratio = v.get("op.transformer_ratio") or 1.0
     at = "" if ratio == 1 else f", referred to the bridge side of the transformer (ratio {ratio:.4g})"
     if r_load is None:
@@ -581,7 +605,7 @@ def _filter(out: _Lines, v: Values) -> tuple[BridgeEdges, int, float, float | No
         out.element(f"Rload out 0 {num(r_load)}",
                     f"Load: {_unit(r_load, 'Ω')} (load.resistance, or op.output_rms^2 / "
                     f"load.power){at}.")
-    return edges, windows, h, r_load
+    return edges, settle
 
 
 def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") -> Deck:
@@ -682,25 +706,27 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
                 "the first commutation each way (the high side switches hard); it reverses "
                 f"between {_unit(r0, 's')} and {_unit(r1, 's')}, while the low side is on, for the "
                 "second (the low side switches hard).")
-    edges, windows, _h, _r = _filter(out, v)
+    edges, settle = _filter(out, v, settling=analysis == "filter")
     f0 = v.need("design.output.frequency", "the output frequency")
-    measure = ((windows - 1) * edges.period, windows * edges.period)
+    measure = (settle, settle + edges.period)
 
     out.blank()
     out.comment("--- Analyses " + "-" * 70)
     out.element(".options method=gear",
                 "Gear integration: the leg's picosecond time constants (milliohm channels across "
                 "picofarads) make the trapezoidal rule ring and crawl.")
-    fc = edges.carrier or f0
+    fc = edges.carrier or 100 * f0  # square waves: resolve harmonics to the 100th
     f_lc = v.get("filter.corner") or fc
     cards = {
         "leg": (f".tran {num(t['step'])} {num(t['stop'])} 0 {num(t['step'])}",
-                "leg: one commutation each way, the high side turning on after the low side "
-                "turns off, then back"),
+                "leg: two commutations each way (load current out of the leg, then into it), "
+                "the high side turning on after the low side turns off, then back"),
         "filter": (f".tran {num(1 / (fc * 20))} {num(measure[1])} 0 {num(1 / (fc * 20))}",
-                   f"filter: the PWL bridge voltage into the filter and load; measure over "
-                   f"{_unit(measure[0], 's')} .. {_unit(measure[1], 's')} (whole output periods "
-                   "after settling)"),
+                   "filter: the PWL bridge voltage into the filter and load; "
+                   + (f"measure over {_unit(measure[0], 's')} .. {_unit(measure[1], 's')} (whole "
+                      "output periods after settling)" if analysis == "filter" else
+                      "this deck's source holds one window from rest; write the deck with "
+                      "--analysis filter for one that settles first")),
         "ac": (f".ac dec 100 {num(f0 / 10)} {num(10 * max(fc, f_lc))}",
                "ac: the filter's response v(out) / v(ab) (the bridge source has AC 1)"),
     }

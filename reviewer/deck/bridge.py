@@ -130,19 +130,23 @@ def ramp_half_width(edges: BridgeEdges, longest: float = 5e-9) -> float:
     return float(min(longest, 0.25 * float(np.min(gaps))))
 
 
-def pwl_points(edges: BridgeEdges, v_bus: float, windows: int,
+def pwl_points(edges: BridgeEdges, v_bus: float, settle: float, windows: int,
                half_width: float) -> list[tuple[float, float]]:
-    """Time-voltage points of the PWL source over ``windows`` repetitions of the window.
+    """Time-voltage points of the PWL source: ``settle`` seconds of the waveform's end, then
+    ``windows`` whole windows.
 
-    Every time is delayed by ``half_width`` so that an edge at ``t = 0`` ramps from 0.
+    Time 0 of the source is ``settle`` before the start of a window, and every time is delayed
+    by ``half_width`` so that the first edge ramps from no earlier than 0.
 
     Parameters
     ----------
     edges : BridgeEdges
     v_bus : float
         Bus voltage [V].
+    settle : float
+        Time before the first whole window [s] (0 for none).
     windows : int
-        Repetitions [unitless].
+        Whole windows after it [unitless].
     half_width : float
         Half the ramp of each edge [s], see :func:`ramp_half_width`.
 
@@ -153,14 +157,26 @@ def pwl_points(edges: BridgeEdges, v_bus: float, windows: int,
     """
     import numpy as np
 
-    before = np.concatenate([[edges.level0], edges.levels[:-1]]) * v_bus
-    after = edges.levels * v_bus
+    period = edges.period
+    before = np.concatenate([[edges.level0], edges.levels[:-1]])
+    after = edges.levels
+    first = -math.ceil(settle / period) if settle > 0 else 0
+    ts, v0, v1 = [], [], []
+    for k in range(first, windows):
+        ts.append(edges.times + k * period)
+        v0.append(before)
+        v1.append(after)
+    t = np.concatenate(ts) if ts else np.zeros(0)
+    b = np.concatenate(v0) if v0 else np.zeros(0)
+    a = np.concatenate(v1) if v1 else np.zeros(0)
+    keep = t >= -settle
+    t, b, a = t[keep] + settle + half_width, b[keep], a[keep]
     pts: list[tuple[float, float]] = []
-    for k in range(windows):
-        base = k * edges.period + half_width
-        for t, v0, v1 in zip(edges.times, before, after):
-            pts.append((base + t - half_width, float(v0)))
-            pts.append((base + t + half_width, float(v1)))
-    if not pts or pts[0][0] > 0:
-        pts.insert(0, (0.0, edges.level0 * v_bus))
+    for tk, lb, la in zip(t.tolist(), (b * v_bus).tolist(), (a * v_bus).tolist()):
+        pts.append((tk - half_width, lb))
+        pts.append((tk + half_width, la))
+    if not pts:
+        return [(0.0, edges.level0 * v_bus)]
+    if pts[0][0] > 0:
+        pts.insert(0, (0.0, pts[0][1]))
     return pts

@@ -151,7 +151,7 @@ def test_the_pwl_carries_the_reviews_bridge_waveform(careful):
     v = Values(careful.sheet, 0)
     edges = _edges(v)
     v_nom = v.get("op.bus_nom")
-    pts = np.array(pwl_points(edges, v_nom, 1, ramp_half_width(edges)))
+    pts = np.array(pwl_points(edges, v_nom, 0.0, 1, ramp_half_width(edges)))
     pts = np.vstack([pts, [edges.period + ramp_half_width(edges), pts[-1, 1]]])
     t, y = pts[:, 0], pts[:, 1]
     dt = np.diff(t)
