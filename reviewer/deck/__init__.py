@@ -39,6 +39,12 @@ ANALYSES = ("leg", "filter", "ac")
 SIDES = ("high", "low")
 _SUFFIX = {"high": "h", "low": "l"}
 _VT = 0.025865  # thermal voltage kT/q at 300.15 K [V]
+_CLAMP_IS, _CLAMP_N = 1e-12, 0.3
+
+
+def _clamp_drop(current: float) -> float:
+    """Forward drop of the clamp diode model at ``current`` [V] (the diode equation)."""
+    return _CLAMP_N * _VT * math.log(current / _CLAMP_IS + 1)
 _WIDTH = 96
 
 
@@ -273,13 +279,21 @@ def _gate(out: _Lines, v: Values, side: str, v_bus: float, i_load: float,
                         f"{_unit(i_src, 'A')}) is not modelled: the resistance above sets the "
                         "current (the review takes the slower of the two estimates).")
     elif i_src is not None:
-        a, b = (source, gpin) if sign > 0 else (gpin, source)
+        node = f"ion_{s}"
+        a, b = (source, node) if sign > 0 else (node, source)
         out.element(f"Gon_{s} {a} {b} {cmd} 0 {num(i_src)}",
-                    f"Current-limited turn-on: {dr}.source_current = {_unit(i_src, 'A')} into the "
-                    "gate while the command is high (no output resistance given), clamped at the "
-                    "on level by an ideal diode.")
-        ca, cb = (gpin, f"von_{s}") if sign > 0 else (f"von_{s}", gpin)
+                    f"Current-limited turn-on: {dr}.source_current = {_unit(i_src, 'A')} out of "
+                    "the stage while the command is high (no output resistance given), clamped at "
+                    "the on level by a diode, then through the series gate resistor.")
+        drop = _clamp_drop(i_src)
+        out.element(f"Vclon_{s} clon_{s} {source} DC {num(sign * (v_on - drop))}",
+                    f"The clamp's reference: the on level less the clamp diode's drop at "
+                    f"{_unit(i_src, 'A')} ({_unit(drop, 'V')}), so that the stage stops at the on "
+                    "level.")
+        ca, cb = (node, f"clon_{s}") if sign > 0 else (f"clon_{s}", node)
         out.element(f"Dcon_{s} {ca} {cb} DCLAMP")
+        _chain(out, node, gpin, [(f"Rg_{s}", rg, f"series gate resistor, {dr}.r_gate"
+                                  + (f" / {n} (each device has its own)" if own else ""))])
     else:
         raise DeckError(f"the deck needs {dr}.r_source or {dr}.source_current for the turn-on "
                         "path", f"{dr}.r_source")
@@ -299,13 +313,21 @@ def _gate(out: _Lines, v: Values, side: str, v_bus: float, i_load: float,
                         f"{_unit(i_snk, 'A')}) is not modelled: the resistance above sets the "
                         "current.")
     elif i_snk is not None:
-        a, b = (gpin, source) if sign > 0 else (source, gpin)
+        node = f"iof_{s}"
+        a, b = (node, source) if sign > 0 else (source, node)
         out.element(f"Goff_{s} {a} {b} one {cmd} {num(i_snk)}",
-                    f"Current-limited turn-off: {dr}.sink_current = {_unit(i_snk, 'A')} out of the "
-                    "gate while the command is low (no output resistance given), clamped at the "
-                    "off level by an ideal diode.")
-        ca, cb = (f"voff_{s}", gpin) if sign > 0 else (gpin, f"voff_{s}")
+                    f"Current-limited turn-off: {dr}.sink_current = {_unit(i_snk, 'A')} into the "
+                    "stage while the command is low (no output resistance given), clamped at the "
+                    "off level by a diode, through the turn-off gate resistor.")
+        drop = _clamp_drop(i_snk)
+        out.element(f"Vcloff_{s} cloff_{s} {source} DC {num(sign * (v_off + drop))}",
+                    f"The clamp's reference: the off level plus the clamp diode's drop at "
+                    f"{_unit(i_snk, 'A')} ({_unit(drop, 'V')}).")
+        ca, cb = (f"cloff_{s}", node) if sign > 0 else (node, f"cloff_{s}")
         out.element(f"Dcoff_{s} {ca} {cb} DCLAMP")
+        _chain(out, node, gpin, [(f"Rgo_{s}", rg_off, f"turn-off gate resistor, {dr}."
+                                  + ("r_gate_off" if v.design(f"{dr}.r_gate_off") is not None
+                                     else "r_gate") + (f" / {n}" if own else ""))])
     else:
         out.comment("The stage has no turn-off side (no r_sink or sink_current): when the command "
                     "falls the stage lets go and the pull resistor alone discharges the gate.")
@@ -395,7 +417,7 @@ def _chain(out: _Lines, a: str, b: str, parts: list[tuple[str, float, str]]) -> 
 
 
 def _pwl_steps(level0: int, steps: list[float], ramp: float,
-               dense: dict[int, tuple[float, float]] | None = None) -> str:
+               dense: dict[int, tuple[float, float]] | None = None) -> list[str]:
     """A 0/1 V command starting at ``level0`` and toggling at each time of ``steps``.
 
     ``dense`` maps the level an edge goes to (1 or 0) to (spacing, length): after such an
@@ -415,7 +437,7 @@ def _pwl_steps(level0: int, steps: list[float], ramp: float,
             while t + h + k * spacing < end:
                 pts.append((t + h + k * spacing, level))
                 k += 1
-    return " ".join(f"{tnum(t)} {x}" for t, x in pts)
+    return [f"{tnum(t)} {x}" for t, x in pts]
 
 
 def _dense(v: Values, side: str) -> dict[int, tuple[float, float]]:
@@ -428,11 +450,11 @@ def _dense(v: Values, side: str) -> dict[int, tuple[float, float]]:
         return [x for x in xs if isinstance(x, (int, float)) and math.isfinite(x) and x > 0]
 
     if v.design(f"{dr}.r_source") is None and v.design(f"{dr}.source_current") is not None:
-        short, whole = finite("td_on", "rise_time"), finite("turn_on_time")
+        short, whole = finite("td_on"), finite("turn_on_time")
         if short and whole:
             out[1] = (min(short) / 25, 3 * max(whole))
     if v.design(f"{dr}.r_sink") is None and v.design(f"{dr}.sink_current") is not None:
-        short, whole = finite("td_off", "fall_time", "tail"), finite("turn_off_time")
+        short, whole = finite("td_off"), finite("turn_off_time")
         if short and whole:
             out[0] = (min(short) / 25, 3 * max(whole))
     return out
@@ -465,7 +487,10 @@ def _leg_timing(v: Values) -> dict[str, float]:
     e["reverse.start"] = e["pos.low.on"] + hold
     e["reverse.end"] = e["pos.low.on"] + 2 * hold
     step = max(fast / 20, t / 40000)
-    return {**e, "stop": t, "step": step, "ramp": min(1e-9, fast / 100), "hold": hold}
+    delays = [x for x in (v.get(f"switching.{s}.{q}") for s in SIDES for q in ("td_on", "td_off"))
+              if isinstance(x, (int, float)) and math.isfinite(x) and x > 0]
+    ramp = min(1e-9, (min(delays) if delays else fast) / 50)
+    return {**e, "stop": t, "step": step, "ramp": ramp, "hold": hold}
 
 
 def _load(v: Values) -> tuple[float | None, float]:
@@ -674,7 +699,9 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
     out.element(".model SCMD SW(VT=0.5 VH=0 RON=1e-3 ROFF=1e9)",
                 "Command switches of the drive stages: 1 mOhm closed, 1 GOhm open.")
     out.element(".model SCMDN SW(VT=-0.5 VH=0 RON=1e-3 ROFF=1e9)")
-    out.element(".model DCLAMP D(IS=1e-12 N=0.02)", "A nearly ideal clamp diode.")
+    out.element(f".model DCLAMP D(IS={num(_CLAMP_IS)} N={num(_CLAMP_N)} CJO=1e-12)",
+                "The clamp diode of current-limited stages (a soft exponential and 1 pF, for the "
+                "simulator's sake; its drop is taken out of the clamp's reference).")
     out.blank()
     v_bus = _bus(out, v)
     i_load = v.get("op.load_current_peak") or 0.0
@@ -688,12 +715,16 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
                    if v.design("drive.shared_signal") else "") + ".")
     hi = [t[f"{h}.high.{x}"] for h in ("pos", "neg") for x in ("on", "off")]
     lo = [t[f"{h}.low.{x}"] for h in ("pos", "neg") for x in ("off", "on")]
-    out.element(f"Vcmd_h cmd_h 0 PWL({_pwl_steps(0, hi, t['ramp'], _dense(v, 'high'))})",
-                "High-side command: on at " + ", ".join(_unit(x, 's') for x in hi[::2])
+    out.comment("High-side command: on at " + ", ".join(_unit(x, 's') for x in hi[::2])
                 + "; off at " + ", ".join(_unit(x, 's') for x in hi[1::2]) + ".")
-    out.element(f"Vcmd_l cmd_l 0 PWL({_pwl_steps(1, lo, t['ramp'], _dense(v, 'low'))})",
-                "Low-side command: off at " + ", ".join(_unit(x, 's') for x in lo[::2])
+    out.continued("Vcmd_h cmd_h 0 PWL(", _pwl_steps(0, hi, t["ramp"], _dense(v, "high")) + [")"])
+    out.comment("Low-side command: off at " + ", ".join(_unit(x, 's') for x in lo[::2])
                 + "; on again at " + ", ".join(_unit(x, 's') for x in lo[1::2]) + ".")
+    out.continued("Vcmd_l cmd_l 0 PWL(", _pwl_steps(1, lo, t["ramp"], _dense(v, "low")) + [")"])
+    if _dense(v, "high") or _dense(v, "low"):
+        out.comment("The extra points after some edges change nothing: each is a breakpoint that "
+                    "keeps the simulator's step fine while a current-limited stage charges a gate "
+                    "along a straight line.")
     nodes: dict[str, str] = {"switch": "sw", "bus": "bus", "bridge": "ab", "out": "out"}
     for side in SIDES:
         nodes.update(_gate(out, v, side, v_bus, i_load, f"cmd_{_SUFFIX[side]}"))
