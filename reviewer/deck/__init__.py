@@ -216,6 +216,31 @@ def _gate_capacitances(v: Values, side: str, n: int, v_drive: float,
     return ciss * n, crss * n, max(coss - crss, 0.0) * n, notes
 
 
+def _split_capacitance(v: Values, side: str, ciss1: float) -> tuple[float, float, str]:
+    """The input capacitance below and above the plateau that the review's switching times use
+    (per device) [F], and a note.
+
+    Where the review sizes its intervals from the gate charges
+    (``reviewer.physics.switching.charge_capacitances``), the deck asks that same function with
+    the same inputs; otherwise both are C_iss.
+    """
+    from reviewer.physics import switching as sp
+
+    split = getattr(sp, "charge_capacitances", None)
+    vpl = v.get(f"switching.{side}.v_plateau")
+    if split is None or vpl is None:
+        return ciss1, ciss1, "C_iss below and above the plateau, as the review's switching times"
+    sw = f"switch.{side}"
+    v_qg = v.design(f"{sw}.qg_vgs")
+    v_qg = v.design(f"{sw}.rds_on_vgs") if v_qg is None else v_qg
+    lo, hi = split(ciss1, v.design(f"{sw}.qg"), v.design(f"{sw}.qgs"), v.design(f"{sw}.qgd"),
+                   vpl, v_qg)
+    return float(lo), float(hi), ("the review's charge-based input capacitances "
+                                  "(reviewer.physics.switching.charge_capacitances: Q_gs / V_pl "
+                                  "below the plateau, (Q_g - Q_gs - Q_gd) / (V_Qg - V_pl) above "
+                                  "it, C_iss where the charges are not given)")
+
+
 def _switch_node_names(side: str, polarity: str) -> tuple[str, str]:
     """(drain, source) node names of a switch position."""
     if side == "low":
@@ -235,7 +260,8 @@ def _gate(out: _Lines, v: Values, side: str, v_bus: float, i_load: float,
     v_off = v.get(f"switching.{side}.v_off", 0.0) or 0.0
     vth = v.need(f"design.{sw}.vth", f"the {side}-side switch threshold")
     ciss, crss, cds, cnotes = _gate_capacitances(v, side, n, v_on, v_bus)
-    r_int = (v.design(f"{sw}.rg_internal") or 0.0) / n
+    r_used = v.get(f"switching.{side}.rg_internal_used")
+    r_int = (r_used if r_used is not None else (v.design(f"{sw}.rg_internal") or 0.0)) / n
     rg = (v.design(f"{dr}.r_gate") or 0.0) / (n if own else 1)
     rg_off = v.design(f"{dr}.r_gate_off")
     rg_off = rg if rg_off is None else rg_off / (n if own else 1)
@@ -339,14 +365,36 @@ def _gate(out: _Lines, v: Values, side: str, v_bus: float, i_load: float,
                     f"{pull_to} ({dr}.pull_to), at the gate pin.")
     else:
         out.comment("No pull resistor: nothing holds the gate when the stage lets go.")
-    _chain(out, gpin, gint, [(f"Rgi_{s}", r_int, f"internal gate resistance, {sw}.rg_internal"
+    r_name = (f"switching.{side}.rg_internal_used (the value the review's times use)"
+              if r_used is not None else f"{sw}.rg_internal")
+    _chain(out, gpin, gint, [(f"Rgi_{s}", r_int, f"internal gate resistance, {r_name}"
                               + (f" / {n}" if n > 1 else ""))])
     many = f" x {n} devices in parallel" if n > 1 else ""
     for note in cnotes:
         out.comment(note + ".")
-    out.element(f"Cgs_{s} {gint} {source} {num(ciss - crss)}",
-                f"C_gs = C_iss - C_rss{many}, from {sw}.ciss and {sw}.crss (linear: a "
-                "small-signal figure; the real capacitance varies with voltage).")
+    c_lo, c_hi, c_note = _split_capacitance(v, side, ciss / n)
+    c_lo, c_hi = max(c_lo * n, crss), max(c_hi * n, crss)
+    vpl = v.get(f"switching.{side}.v_plateau")
+    base = min(c_lo, c_hi)
+    out.element(f"Cgs_{s} {gint} {source} {num(base - crss)}",
+                f"C_gs = C_in - C_rss{many}, with C_in = {_unit(c_lo, 'F')} below the plateau "
+                f"and {_unit(c_hi, 'F')} above it: {c_note} (linear pieces: the real capacitance "
+                "varies with voltage).")
+    if vpl is not None and abs(c_hi - c_lo) > 1e-6 * base:
+        above = c_hi > c_lo
+        extra = abs(c_hi - c_lo)
+        on_ctl = (f"{gint} {source}" if sign > 0 else f"{source} {gint}") if above else \
+            (f"{source} {gint}" if sign > 0 else f"{gint} {source}")
+        vt = vpl if above else -vpl
+        out.element(f"Sxc_{s} {gint} xc_{s} {on_ctl} SXC_{s.upper()}",
+                    f"The other {_unit(extra, 'F')} of C_gs, switched in while V_GS is "
+                    f"{'above' if above else 'below'} the plateau "
+                    f"(switching.{side}.v_plateau = {_unit(vpl, 'V')}); while out it is held at "
+                    "the plateau, so it joins without a jump of charge.")
+        out.element(f".model SXC_{s.upper()} SW(VT={num(vt)} VH=0 RON=1e-3 ROFF=1e12)")
+        out.element(f"Cxc_{s} xc_{s} {source} {num(extra)}")
+        out.element(f"Rxc_{s} xc_{s} xr_{s} 1e8")
+        out.element(f"Vxc_{s} xr_{s} {source} DC {num(sign * vpl)}")
     if crss > 0:
         out.element(f"Cgd_{s} {gint} {drain} {num(crss)}", f"C_gd = C_rss{many}, {sw}.crss.")
     if cds > 0:
