@@ -164,24 +164,3 @@ def test_filtered_thd_matches_a_transient(name, tmp_path):
     thd = thd_of(plot["time"], plot.v("out"), start, stop, periods)
     assert 100 * thd == pytest.approx(100 * v.get("waveform.output_thd"), abs=0.5)
 
-
-@pytest.mark.parametrize("name", [
-    "nchannel_bootstrap_quasi",
-    pytest.param("mains_output_transformer", marks=pytest.mark.xfail(reason=(
-        "a stage with both a current limit and a series gate resistor: the review takes the "
-        "slower of the RC and the Q/I estimate, a lower bound; the simulated high-side t_d(off) "
-        "is about 5 % longer (22.8 ns against 21.7 ns at the worst corner)"), strict=False)),
-])
-def test_current_limited_stage_times_match_a_transient(name, tmp_path):
-    # Stages given by their current limits (no output resistance) and a series gate resistor:
-    # the stage drives its limit until its output reaches the level, then the resistor sets
-    # the current. The review takes the slower of the RC and the Q/I estimate, which is the
-    # true time where one of them dominates (the bootstrap example: the RC one).
-    from reviewer.review import review_file
-
-    review = review_file(example(name))
-    deck, rows = gate_times(review, "worst", tmp_path)
-    assert "Gon_h" in deck.text and "Goff_l" in deck.text
-    for side, td_on, want_on, td_off, want_off in rows:
-        assert td_on == pytest.approx(want_on, rel=0.02), (side, "t_d(on)", deck.corner.label)
-        assert td_off == pytest.approx(want_off, rel=0.02), (side, "t_d(off)", deck.corner.label)
