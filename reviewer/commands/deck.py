@@ -33,7 +33,7 @@ def run(args: argparse.Namespace) -> int:
     import sys
 
     from reviewer.commands._record import finding_for, load_review
-    from reviewer.deck import DeckError, build_deck
+    from reviewer.deck import DeckError, build_deck, write_deck
     from reviewer.errors import InputError, Problem
 
     out: Path | None = args.output
@@ -45,15 +45,12 @@ def run(args: argparse.Namespace) -> int:
     if corner not in ("typical", "worst"):
         corner = finding_for(review, args.design, corner)
     try:
-        deck = build_deck(review, corner, args.analysis)
+        if out is None:
+            sys.stdout.write(build_deck(review, corner, args.analysis).text)
+            return 0
+        deck = write_deck(review, out, corner, args.analysis)
     except DeckError as e:
         raise InputError([Problem(str(args.design), None, e.field, str(e))]) from None
-    if out is None:
-        sys.stdout.write(deck.text)
-        return 0
-    from reviewer.atomic import write_text
-
-    write_text(out, deck.text)
     print(f"wrote {out} ({deck.analysis} analysis; corner: {deck.corner.describe()})",
           file=sys.stderr)
     return 0

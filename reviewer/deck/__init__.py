@@ -33,7 +33,7 @@ from typing import Any
 from reviewer.deck.bridge import BridgeEdges, bridge_edges, pwl_points, ramp_half_width
 from reviewer.deck.corner import Corner, DeckError, Values, choose_corner
 
-__all__ = ["ANALYSES", "Deck", "DeckError", "build_deck", "choose_corner"]
+__all__ = ["ANALYSES", "Deck", "DeckError", "build_deck", "choose_corner", "write_deck"]
 
 ANALYSES = ("leg", "filter", "ac")
 SIDES = ("high", "low")
@@ -817,3 +817,26 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
     return Deck(out.text(), c, analysis, nodes,
                 {k: x for k, x in t.items() if k.startswith(("pos.", "neg."))}, measure, f0)
 
+
+
+def write_deck(review: Any, path: Any, corner: str | Any = "worst", analysis: str = "leg") -> Deck:
+    """Build the deck (see :func:`build_deck`) and write it to ``path`` atomically.
+
+    A finding with no corner of its own (a flag, a question, a check that lacked data) gives the
+    ``worst`` deck. Raises :class:`DeckError` for a design the deck cannot be built from, and
+    ``OSError`` for a file that cannot be written.
+    """
+    from pathlib import Path
+
+    from reviewer.atomic import write_text
+    from reviewer.findings import Finding
+
+    if isinstance(corner, Finding) and (corner.outcome not in ("fail", "pass") or
+                                        corner.margin is None):
+        corner = "worst"
+    deck = build_deck(review, corner, analysis)
+    target = Path(path)
+    if not target.parent.is_dir():
+        raise DeckError(f"no such folder {str(target.parent)!r} to write the deck into")
+    write_text(target, deck.text)
+    return deck
