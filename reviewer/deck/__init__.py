@@ -10,16 +10,19 @@ What the deck holds
 -------------------
 - the bus: a DC source at the highest bus (the bus the switching and V_DS figures are at), its
   internal resistance, the bulk capacitor with its ESR and the local capacitor;
-- one leg: each switch as a voltage-controlled switch (threshold V_th, on-resistance R_DS(on) hot)
-  with a body diode (sized to the given forward voltage), C_gs = C_iss − C_rss, C_gd = C_rss and
-  C_ds = C_oss − C_rss; its gate drive as the design describes it: on and off levels, the stage's
-  output resistances (or its current limits), the series gate resistors, the internal gate
-  resistance and the pull resistor to the rail it ties to; the command of each switch with the
-  dead time at this corner; the load current at its peak as a DC source on the switch node;
+- one leg: each switch as a square-law (SPICE level 1) MOSFET with the design's threshold, sized
+  to the review's Miller plateau at the peak load current and to R_DS(on) hot, with a body
+  diode (sized to the given forward voltage), C_gd = C_rss, C_ds = C_oss − C_rss and C_gs making
+  up the input capacitance the review's switching times use below and above the plateau; its
+  gate drive as the design describes it: on and off levels, the stage's output resistances (or
+  its current limits), the series gate resistors, the internal gate resistance and the pull
+  resistor to the rail it ties to; the command of each switch with the dead time at this corner;
+  the peak load current on the switch node, out of the leg for one commutation each way and into
+  it for a second;
 - the output filter and load, driven by the bridge voltage as a piecewise-linear source: the
   waveform the review's spectrum was computed from (:mod:`reviewer.deck.bridge`).
 
-One analysis is active (``leg``: a transient over one commutation each way; ``filter``: a
+One analysis is active (``leg``: a transient over two commutations each way; ``filter``: a
 transient of the PWL bridge voltage over whole output periods after settling; ``ac``: the
 filter's frequency response); the other two are in the deck as comment lines.
 """
@@ -43,7 +46,13 @@ _CLAMP_IS, _CLAMP_N = 1e-12, 0.3
 
 
 def _clamp_drop(current: float) -> float:
-    """Forward drop of the clamp diode model at ``current`` [V] (the diode equation)."""
+    """Forward drop of the clamp diode model at ``current`` [A], in [V].
+
+    References
+    ----------
+    The ideal-diode (Shockley) equation I = I_S·(exp(V / (N·V_T)) − 1), as SPICE's diode model
+    uses it (Horowitz & Hill, *The Art of Electronics*, 3rd ed., §2.2.6; from memory).
+    """
     return _CLAMP_N * _VT * math.log(current / _CLAMP_IS + 1)
 _WIDTH = 96
 
@@ -588,6 +597,11 @@ def _slowest_time_constant(l_f: float, c_f: float, dcr: float, r_load: float | N
     Analysis setup only (how long to let the transient settle), from the deck's own elements:
     H = 1 / (1 + Z_s·Y_p) with Z_s = r_L + sL and Y_p = sC + Y_d + Y_load written as
     polynomials in s.
+
+    References
+    ----------
+    A pole s = σ + jω decays as exp(σt); Erickson & Maksimović, *Fundamentals of Power
+    Electronics*, 2nd ed., 2001, ch. 8 (poles of second-order responses).
     """
     from numpy.polynomial import polynomial as P
 

@@ -186,8 +186,8 @@ def test_a_design_without_gate_capacitance_is_a_clear_error(tmp_path):
 
 
 def test_the_deck_for_the_careful_example_takes_at_most_50_ms(careful):
-    times = []
-    for _ in range(5):
+    times = []  # median of seven: the machine is shared
+    for _ in range(7):
         t0 = time.perf_counter()
         build_deck(careful, "worst")
         times.append(time.perf_counter() - t0)
