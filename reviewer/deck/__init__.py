@@ -591,12 +591,13 @@ def _edges(v: Values) -> BridgeEdges:
 
 
 def _slowest_time_constant(l_f: float, c_f: float, dcr: float, r_load: float | None,
-                           l_load: float, rd: float | None, cd: float | None) -> float | None:
+                           l_load: float, rd: float | None, cd: float | None,
+                           esr: float = 0.0) -> float | None:
     """The filter's slowest time constant, 1 / min |Re p| over the poles of v_out / v_ab [s].
 
     Analysis setup only (how long to let the transient settle), from the deck's own elements:
-    H = 1 / (1 + Z_s·Y_p) with Z_s = r_L + sL and Y_p = sC + Y_d + Y_load written as
-    polynomials in s.
+    H = 1 / (1 + Z_s·Y_p) with Z_s = r_L + sL and Y_p = sC / (1 + sC·ESR) + Y_d + Y_load
+    written as polynomials in s.
 
     References
     ----------
@@ -605,7 +606,7 @@ def _slowest_time_constant(l_f: float, c_f: float, dcr: float, r_load: float | N
     """
     from numpy.polynomial import polynomial as P
 
-    num, den = [0.0, c_f], [1.0]  # Y_p = num / den, ascending powers of s
+    num, den = [0.0, c_f], [1.0, c_f * esr]  # Y_p = num / den, ascending powers of s
 
     def add(n2: list[float], d2: list[float]) -> None:
         nonlocal num, den
@@ -627,7 +628,14 @@ def _filter(out: _Lines, v: Values, settling: bool) -> tuple[BridgeEdges, float]
     edges = _edges(v)
     v_nom = v.need("op.bus_nom", "the bridge voltage's level")
     l_f, c_f = v.design("filter.inductance") or 0.0, v.design("filter.capacitance") or 0.0
-    dcr = v.design("filter.inductor_dcr") or 0.0
+    # the winding resistance and capacitor ESR the review used (it may assume them where the
+    # design gives none), else the design's
+    dcr_name = "filter.inductor_dcr" if v.get("filter.inductor_dcr") is not None \
+        else "design.filter.inductor_dcr"
+    dcr = v.get(dcr_name) or 0.0
+    esr_name = "filter.capacitor_esr" if v.get("filter.capacitor_esr") is not None \
+        else "design.filter.capacitor_esr"
+    esr = v.get(esr_name) or 0.0
     rd, cd = v.design("filter.damping_resistance"), v.design("filter.damping_capacitance")
     r_load, l_load = _load(v)
     h = ramp_half_width(edges)
@@ -637,7 +645,7 @@ def _filter(out: _Lines, v: Values, settling: bool) -> tuple[BridgeEdges, float]
         f", carrier {_unit(edges.carrier, 'Hz')}" if edges.carrier else "")
     settle = 0.0
     if settling:
-        tau = _slowest_time_constant(l_f, c_f, dcr, r_load, l_load, rd, cd) if l_f and c_f \
+        tau = _slowest_time_constant(l_f, c_f, dcr, r_load, l_load, rd, cd, esr) if l_f and c_f \
             else None
         limit = 4 * edges.period
         settle = limit if tau is None else min(8 * tau, limit)
@@ -664,12 +672,19 @@ def _filter(out: _Lines, v: Values, settling: bool) -> tuple[BridgeEdges, float]
                     f"{_unit(l_f, 'H')} (linear: no saturation).")
         if dcr:
             out.element(f"Rdcr lf out {num(dcr)}",
-                        f"Its winding resistance, filter.inductor_dcr = {_unit(dcr, 'Ω')}.")
+                        f"Its winding resistance, {dcr_name} = {_unit(dcr, 'Ω')}"
+                        + (" (the value the review used)" if not dcr_name.startswith("design.")
+                           else "") + ".")
     else:
         out.element("Rnof ab out 1e-6", "No filter.inductance: the output is the bridge voltage.")
-    if c_f:
+    if c_f and esr:
+        out.element(f"Cf out cesr {num(c_f)}",
+                    f"Filter capacitor, filter.capacitance = {_unit(c_f, 'F')}, in series with "
+                    f"its ESR, {esr_name} = {_unit(esr, 'Ω')}.")
+        out.element(f"Resr cesr 0 {num(esr)}")
+    elif c_f:
         out.element(f"Cf out 0 {num(c_f)}",
-                    f"Filter capacitor, filter.capacitance = {_unit(c_f, 'F')} (ideal).")
+                    f"Filter capacitor, filter.capacitance = {_unit(c_f, 'F')} (no ESR).")
     if rd:
         if cd:
             out.element(f"Rd out dmp {num(rd)}", f"Damping branch: filter.damping_resistance = "
