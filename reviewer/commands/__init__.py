@@ -4,4 +4,5 @@ Modules import nothing heavy at their top: the command line imports all of them 
 argument parser, then runs one.
 """
 
-NAMES = ["check", "sheet", "schema", "new", "examples", "decide", "answer", "record", "diff", "walk", "rules", "completion"]
+NAMES = ["check", "sheet", "schema", "new", "examples", "decide", "answer", "record", "diff",
+         "walk", "rules", "deck", "completion"]

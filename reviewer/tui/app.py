@@ -379,6 +379,27 @@ class WalkApp(App[int]):
         self.push_screen(PathDialog("Export the Markdown report to", str(self.walk.default_export()),
                                     apply))
 
+    def action_deck(self) -> None:
+        from reviewer.deck import DeckError, write_deck
+
+        review, item = self.walk.review, self._item()
+        if review is None:
+            self.notify("No review to write a deck from", severity="warning")
+            return
+
+        def apply(target: str) -> str | None:
+            try:
+                deck = write_deck(review, Path(target), item.finding if item else "worst")
+            except DeckError as e:
+                return str(e)
+            except OSError as e:
+                return f"cannot write {target}: {e}"
+            self.notify(f"Wrote the SPICE deck to {target} ({deck.corner.describe()})")
+            return None
+
+        self.push_screen(PathDialog("Write the SPICE deck of the leg at this finding's corner to",
+                                    str(self.walk.path.with_suffix(".cir")), apply))
+
     def action_rereview(self) -> None:
         self.review_again()
 

@@ -43,6 +43,8 @@ ACTIONS: tuple[Action, ...] = (
            footer=False),
     Action("p", "toggle_passed", "Passed", "Show or hide the checks that passed", footer=False),
     Action("e", "export", "Export", "Export the Markdown report"),
+    Action("s", "deck", "SPICE deck", "Write a SPICE deck of one leg and the filter at the "
+           "selected finding's corner", footer=False),
     Action("r", "rereview", "Re-review", "Read the design file again and review it", footer=False),
     Action("question_mark,h", "help", "Keys", "List every key", shown="? / h"),
     Action("q", "quit", "Quit", "Leave the walkthrough (everything is already saved)"),
