@@ -111,13 +111,19 @@ def judged_names(book: Rulebook) -> frozenset[str]:
                      if e is not None for n in e.names)
 
 
+def judge_all(design: Design, book: Rulebook, sheet: Sheet,
+              answers: dict[str, tuple[str, str]]) -> list[Finding]:
+    """Every rule judged on ``sheet``, its text fitted to the case, and every pass value verified
+    by re-review: the one way findings are made, for a first review and for a re-judged one."""
+    findings = cases.apply(evaluate(book, sheet, answers), book, sheet, answers)
+    return verify(findings, design, book, sheet, answers)
+
+
 def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
     sheet = compute(design, focus=judged_names(book), combined=False)
-    answers = answers_of(design, record)
-    findings = cases.apply(evaluate(book, sheet, answers), book, sheet, answers)
-    findings = verify(findings, design, book, sheet, answers)
+    findings = judge_all(design, book, sheet, answers_of(design, record))
     sheet = with_all_runs(sheet)  # the sheet's extremes over every corner the rules were judged on
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled),
                   notices(design, sheet, book))

@@ -87,7 +87,7 @@ BY_UNIT: dict[str, Range] = {
     "A": _r("A", 0.0, 1e7),
     "Ω": _r("Ω", 0.0, 1e15),
     "F": _r("F", 1e-18, 1e4),
-    "H": _r("H", 1e-15, 1e4),
+    "H": _r("H", 0.0, 1e4),  # 0 H only where BY_PATH allows it (a Kelvin source)
     "s": _r("s", 0.0, 1e4),
     "Hz": _r("Hz", 0.0, 1e10, lo_open=True),
     "W": _r("W", 0.0, 1e9),
@@ -101,6 +101,8 @@ BY_UNIT: dict[str, Range] = {
     "V/s": _r("V/s", 0.0, 1e15),
     "A/s": _r("A/s", 0.0, 1e15),
     "rad": _r("rad", 0.0, 2 * math.pi),
+    "A²s": _r("A²s", 0.0, 1e12, lo_open=True),
+    "T": _r("T", 0.0, 100.0, lo_open=True),
     "": _r("", -1e9, 1e9),
     "%": _r("%", 0.0, 1.0, note="a fraction from 0 to 100 %"),
 }
@@ -139,6 +141,11 @@ BY_PATH: dict[str, Range] = {
     "switch.*.rds_hot_factor": _r("", 0.0, 100.0, lo_open=True),
     "switch.*.tj_max": _r("°C", ABSOLUTE_ZERO_C, 1000.0, lo_open=True, note="above absolute zero"),
     "switch.*.gfs": _r("S", 0.0, 1e6, lo_open=True),
+    # a Kelvin-source connection shares no inductance between gate loop and power path: 0 H
+    "switch.*.common_source_inductance": _r("H", 0.0, 1e-3),
+    "filter.inductance": _r("H", 0.0, 1e4, lo_open=True),
+    "grounding.loop_inductance": _r("H", 0.0, 1e-3, lo_open=True),
+    "grounding.common_inductance": _r("H", 0.0, 1e-3, lo_open=True),
     "switch.*.v_plateau": _r("V", 0.0, 1e4, lo_open=True),
     "drive.*.zener": _r("V", 0.0, 1e4, lo_open=True),
     "bootstrap.supply": _r("V", 0.0, 1e4, lo_open=True),

@@ -120,8 +120,7 @@ def compute(path: str | Path, book, record: rec.Record,
 def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
               proposals: dict[str, str]) -> Review:
     """The review of ``text`` with ``proposals``: from the cache when the inputs are the same."""
-    from reviewer.engine import evaluate
-    from reviewer.review import Review, answers_of, review_design
+    from reviewer.review import answers_of, judge_all, review_design
     from reviewer.whatif import apply_to_text
 
     key = (name, text, tuple(sorted(proposals.items())))
@@ -136,7 +135,7 @@ def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
         return review
     review, seen = hit
     if seen != answers_key:
-        findings = evaluate(book, review.sheet, answers_of(review.design, record))
+        findings = judge_all(review.design, book, review.sheet, answers_of(review.design, record))
         review = replace(review, findings=tuple(findings), record=record)
         cache[key] = (review, answers_key)
     return replace(review, record=record)
