@@ -174,6 +174,7 @@ class _Judge:
         self.focus = frozenset(n for e in (c.value, c.limit, c.fails_when) if e is not None
                                for n in e.names)
         self.cache: dict[tuple, Finding | None] = {}
+        self.trees: list[Any] = []  # replay trees shared by the re-reviews (one field differs)
         self.runs = 0
 
     def judged(self, changes: dict[str, Any]) -> Finding | None:
@@ -192,7 +193,9 @@ class _Judge:
                 return None
             self.runs += 1
             try:
-                self.cache[key] = judge(self.c, compute(d2, focus=self.focus, combined=False), self.answers)
+                sheet = compute(d2, focus=self.focus, combined=False, ends=False,
+                                trees=self.trees)
+                self.cache[key] = judge(self.c, sheet, self.answers)
             except (ArithmeticError, ValueError):  # a value the physics cannot take (a zero rating)
                 self.cache[key] = None
         return self.cache[key]

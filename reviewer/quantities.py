@@ -173,9 +173,14 @@ class Runner:
         Reuse a module's results when its reads equal those of an earlier run.
     modules : list, optional
         The derive modules in order (default :data:`reviewer.derive.MODULES`).
+    trees : list, optional
+        Replay trees shared with other runners (of designs that differ in a field or two, as
+        the pass-value check makes): every read, not only the toleranced ones, is then keyed,
+        so a module replays only where all it read is the same.
     """
 
-    def __init__(self, design: Any, replay: bool = True, modules: list[Any] | None = None):
+    def __init__(self, design: Any, replay: bool = True, modules: list[Any] | None = None,
+                 trees: list[Any] | None = None):
         self.design = design
         self.modules = list(MODULES if modules is None else modules)
         self.catalogue = catalogue(self.modules)
@@ -184,7 +189,10 @@ class Runner:
         self.replay = replay
         self.owner = {n: i for i, m in enumerate(self.modules) for d in m.QUANTITIES
                       for n in d.names()}
-        self._trees = [_Node() for _ in self.modules]
+        self._shared = trees is not None and replay
+        if trees is not None and not trees:
+            trees.extend(_Node() for _ in self.modules)
+        self._trees = trees if trees is not None else [_Node() for _ in self.modules]
         self._corners: dict[Assign, Run] = {}
         self._inside: dict[tuple, Run] = {}
         self._varies = frozenset(self.tol)
@@ -294,8 +302,9 @@ class Runner:
                 # this runner: only the reads that can differ go into the replay tree
                 # nor do reads of what the module published itself (it computes them again)
                 own = hit[0].keys() | hit[1].keys()
-                _insert(tree, [r for r in ctx.reads if (r[1] in self._varies if r[0] == "v"
-                                                        else r[1] not in own)], hit)
+                _insert(tree, [r for r in ctx.reads
+                               if ((self._shared or r[1] in self._varies) if r[0] == "v"
+                                   else r[1] not in own)], hit)
             self.read_fields.update(name for kind, name in hit[3] if kind == "v")
         else:
             ctx.out.update(hit[0])
@@ -516,7 +525,8 @@ def catalogue(modules: list[Any] | None = None) -> dict[str, Declared]:
 
 
 def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None,
-            replay: bool = True, combined: bool = True) -> Sheet:
+            replay: bool = True, combined: bool = True, ends: bool = True,
+            trees: list[Any] | None = None) -> Sheet:
     """Run every derive module over the design's tolerance corners and return the sheet.
 
     ``focus`` names the quantities whose extremes the sheet should show (those the rules judge);
@@ -525,9 +535,14 @@ def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] |
     With ``combined`` False, the sheet has the typical and one-at-a-time runs only: for a caller
     that judges the rules next and then takes :func:`with_all_runs` (the rules' own corners give
     the extremes). The sheet's :attr:`Sheet.runner` makes the further corners each rule's own
-    worst-case search needs (:mod:`reviewer.worstcase`).
+    worst-case search needs (:mod:`reviewer.worstcase`). With ``ends`` False, the sheet has the
+    typical run only (a caller that judges one rule next, whose own search makes the corners it
+    needs: the pass-value check). ``trees``: replay trees shared between such calls (see
+    :class:`Runner`).
     """
-    runner = Runner(design, replay=replay)
+    runner = Runner(design, replay=replay, trees=trees)
+    if not ends:
+        return _sheet(runner, [runner.typical])
     return sheet_of(runner, max_runs=max_runs, focus=focus, combined=combined)
 
 

@@ -74,16 +74,20 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
     for i, p in enumerate(deps):
         s = runner.spans[p]
         lo, hi = float(score[1 + 2 * i]), float(score[2 + 2 * i])
-        if not np.isfinite([lo, hi, typical]).all() or s.hi <= s.lo:
-            continue  # not applicable or not computable at an end: nothing to bend
-        chord = lo + (s.typ - s.lo) / (s.hi - s.lo) * (hi - lo)
-        if typical >= chord - _tiny(np.array([lo, hi, typical])):
-            continue  # typical on or above the chord of the ends: no dip shows; not probed
+        if not np.isfinite(typical) or not np.isfinite([lo, hi]).any() or s.hi <= s.lo:
+            continue  # not applicable or not computable at typical or either end
+        if np.isfinite([lo, hi]).all():
+            chord = lo + (s.typ - s.lo) / (s.hi - s.lo) * (hi - lo)
+            if typical >= chord - _tiny(np.array([lo, hi, typical])):
+                continue  # typical on or above the chord of the ends: no dip shows; not probed
+        # else one end is not applicable or not computable (a thermal runaway, say): the margin
+        # may fall all the way to that edge, so the inside is always probed
         probe = [runner.inside({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS]
         ends = [runner.corner(((p, e),)) for e in ENDS]
         inner = margins(c, probe).score
         outer = margins(c, ends).score
-        if np.isfinite(inner).any() and np.nanmin(inner) < np.nanmin(outer) - _tiny(outer):
+        inner, outer = inner[inner < np.inf], outer[outer < np.inf]  # where it applies
+        if inner.size and outer.size and inner.min() < outer.min() - _tiny(outer):
             bent.append(p)
     if not bent:
         return runs, method

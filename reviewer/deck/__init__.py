@@ -400,7 +400,10 @@ def _gate(out: _Lines, v: Values, side: str, v_bus: float, i_load: float,
                     f"{'above' if above else 'below'} the plateau "
                     f"(switching.{side}.v_plateau = {_unit(vpl, 'V')}); while out it is held at "
                     "the plateau, so it joins without a jump of charge.")
-        out.element(f".model SXC_{s.upper()} SW(VT={num(vt)} VH=0 RON=1e-3 ROFF=1e12)")
+        # 1 mV of hysteresis: a gate that crosses the plateau slowly (a pull resistor alone)
+        # would otherwise make the switch chatter and stop the transient ("timestep too small")
+        out.element(f".model SXC_{s.upper()} SW(VT={num(vt)} VH=1e-3 RON=1e-3 ROFF=1e12)",
+                    "1 mV of hysteresis about the plateau, for the simulator's sake.")
         out.element(f"Cxc_{s} xc_{s} {source} {num(extra)}")
         out.element(f"Rxc_{s} xc_{s} xr_{s} 1e8")
         out.element(f"Vxc_{s} xr_{s} {source} DC {num(sign * vpl)}")

@@ -122,7 +122,9 @@ def test_same_seed_same_json_other_seed_other_samples(rules):
     two = view.render([with_yield(review_design(d, "d.toml", rules), rules, 40, seed=3)])
     assert one == two
     other = with_yield(r, rules, 40, seed=4)
-    f3 = json.loads(one)["findings"]
+    doc = json.loads(one)
+    assert len(doc["reviews"]) == 1
+    f3 = doc["reviews"][0]["findings"]
     f4 = [x for x in other.findings]
     a = next(x for x in f3 if x["rule_id"] == "test.bus")
     b = next(x for x in f4 if x.rule_id == "test.bus")

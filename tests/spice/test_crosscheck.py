@@ -56,11 +56,12 @@ def careful():
 def pull_only_design() -> str:
     """The naive bench design (P-channel high side, single-transistor stages that only pull the
     gate on, pull resistors as the only turn-off path), with separate signals and a dead time
-    long enough that the leg never cross-conducts, so each turn-off is a clean RC discharge."""
+    long enough that the leg never cross-conducts, so each turn-off is a clean RC discharge
+    (200 µs: the two dead times stay within the 500 µs carrier period, as the loader requires)."""
     text = example("naive_bench_pchannel").read_text(encoding="utf-8")
     assert "shared_signal = true" in text and 'dead_time = "0 s"' in text
     return (text.replace("shared_signal = true", "shared_signal = false")
-                .replace('dead_time = "0 s"', 'dead_time = "300 µs"'))
+                .replace('dead_time = "0 s"', 'dead_time = "200 µs"'))
 
 
 def gate_times(review, corner, tmp: Path):
@@ -100,6 +101,7 @@ def test_pull_resistor_network_times_match_a_transient(tmp_path):
     review = review_text(pull_only_design(), "pull_only.toml")
     for side in ("high", "low"):
         assert review.sheet.value(f"switching.{side}.pull_only") is True
+        assert review.sheet.value(f"timing.{side}.overlap") == 0.0  # no cross-conduction
     deck, rows = gate_times(review, "worst", tmp_path)
     for side, td_on, want_on, td_off, want_off in rows:
         assert td_on == pytest.approx(want_on, rel=0.02), (side, "t_d(on)", deck.corner.label)
