@@ -111,7 +111,13 @@ def with_fields(design: Any, changes: dict[str, Any]) -> Any:
             node[part] = child
             node = child
         node[parts[-1]] = value
-    return type(design).model_validate(data)
+    out = type(design).model_validate(data)
+    from reviewer.design.ranges import check
+
+    problems = check(out)  # the ranges and cross-field limits the loader applies
+    if problems:
+        raise ValueError("; ".join(message for _, message in problems))
+    return out
 
 
 def _stored(current: Any, new: float) -> tuple[Any, str]:
