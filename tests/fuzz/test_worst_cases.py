@@ -26,9 +26,9 @@ def design(tmp_path, text: str, name: str = "d.toml"):
     return p
 
 
-def check(path, *extra: str):
+def check(path, *extra: str, factor: float = 5.0):
     o = run("check", str(path), "--format", "json", "--no-house-rules", *extra)
-    judge(o, fmt="json")
+    judge(o, fmt="json", factor=factor)
     return o
 
 
@@ -71,7 +71,11 @@ def test_physical_ranges(tmp_path, key, value, words):
 
 def test_the_largest_carrier_allowed_is_reviewed_in_time(tmp_path):
     top = ranges.MAX_CARRIER_RATIO * 50.0  # the example's output is 50 Hz
-    o = check(design(tmp_path, with_line(CAREFUL, "carrier", f'"{top:g} Hz"')))
+    # Measured after the merge: 13–15 s on the loaded 2-core machine, about 7 times the example
+    # at its own 20 kHz, because every failing finding's pass value is verified by re-reviews
+    # that re-run the waveform synthesis (five times as many carrier periods). Bounded at 10
+    # times until the waveform module is evaluated over arrays (the speed work of the engine).
+    o = check(design(tmp_path, with_line(CAREFUL, "carrier", f'"{top:g} Hz"')), factor=10.0)
     assert o.code in (0, 1), o.err
 
 
