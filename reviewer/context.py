@@ -114,7 +114,11 @@ class Ctx:
 
     # publishing ---------------------------------------------------------------------------
     def publish(self, name: str, value: Any, note: str = "") -> None:
-        """Publish ``value`` (SI, in the declared unit) under the declared ``name``."""
+        """Publish ``value`` (SI, in the declared unit) under the declared ``name``.
+
+        In an array call (a module with ``VECTOR = True``, see :meth:`Runner.batch`) ``value``
+        may be a numpy array with one element per point, and ``note`` a list of texts, one per
+        point, where the note quotes a number that differs between points."""
         if name not in self._catalogue:
             raise KeyError(f"{name!r} is published but not declared")
         if isinstance(value, float) and math.isnan(value):

@@ -357,7 +357,7 @@ class Runner:
                     x = v
                 c.out[k] = x
             c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
-            c.notes.update(actx.notes)
+            c.notes.update({k: _element(v, i, n) for k, v in actx.notes.items()})
             reads[i].append(got)
         return True
 
@@ -394,6 +394,14 @@ class Runner:
             elif n in self.owner:
                 found |= md[self.owner[n]]
         return tuple(p for p in self.tol if p in found)
+
+
+def _element(note: Any, i: int, n: int) -> str:
+    """Point ``i``'s note from a vector call: a note is one text for every point, or a list of
+    ``n`` texts, one per point (a note that quotes a number that differs between points)."""
+    if isinstance(note, (list, tuple)) and len(note) == n:
+        return note[i]
+    return note
 
 
 def _lookup(node: _Node, ctx: Ctx) -> tuple | None:
