@@ -129,6 +129,46 @@ class Run:
         return name in self.out
 
 
+class Lazy:
+    """A run's label made only when it is asked for (rendering values as text costs more than
+    many runs; most inside and sample runs are never shown)."""
+
+    __slots__ = ("make",)
+
+    def __init__(self, make: Any):
+        self.make = make
+
+
+def _get_label(run: Run) -> Assign:
+    x = run.__dict__["_label"]
+    if isinstance(x, Lazy):
+        x = run.__dict__["_label"] = tuple(x.make())
+    return x
+
+
+def _set_label(run: Run, value: Any) -> None:
+    run.__dict__["_label"] = value
+
+
+Run.label = property(_get_label, _set_label,  # type: ignore[assignment]
+                     doc="The corner, or for an inside run or a sample, each value as text.")
+
+
+def point_label(at: dict[str, float], units: dict[str, str],
+                corner: dict[str, str] | None = None) -> Lazy:
+    """The label of a run at values ``at`` (and inputs of ``corner`` at their ends), made when
+    first asked for: ((path, "min"|"max"|"<value>"), ...), sorted when ``corner`` is given."""
+    def make() -> Assign:
+        from reviewer.units import render
+
+        shown = [(p, render(x, units.get(p, ""), prec=4)) for p, x in at.items()]
+        if corner is None:
+            return tuple(shown)
+        return tuple(sorted([*corner.items(), *shown]))
+
+    return Lazy(make)
+
+
 _GONE = object()
 
 
@@ -150,7 +190,15 @@ class _Node:
         self.result: tuple[dict, dict, dict, frozenset] | None = None
 
 
+_PLAIN = (str, int, bool, type(None))
+
+
 def _key(x: Any) -> Any:
+    t = type(x)
+    if t is float:
+        return ("~nan",) if x != x else x
+    if t in _PLAIN:
+        return x
     try:
         hash(x)
     except TypeError:  # lists and tables: compared by their text
@@ -229,19 +277,46 @@ class Runner:
     def inside(self, corner: dict[str, str], at: dict[str, float]) -> Run:
         """A kept run: inputs in ``corner`` at their "min"/"max" end, inputs in ``at`` at the
         given values (inside their tolerance), the rest typical. Its label gives each value."""
-        from reviewer.units import render
+        return self.insides([(corner, at)])[0]
 
-        key = (tuple(sorted(corner.items())), tuple(sorted(at.items())))
-        got = self._inside.get(key)
-        if got is None:
-            values = dict(self.base)
+    def insides(self, wanted: list[tuple[dict[str, str], dict[str, float]]]) -> list[Run]:
+        """Many kept inside runs (see :meth:`inside`), those not made yet made in one
+        :meth:`batch` call."""
+        keys = [(tuple(sorted(corner.items())), tuple(sorted(at.items())))
+                for corner, at in wanted]
+        todo: dict[tuple, tuple[dict[str, Any], Lazy]] = {}
+        for key, (corner, at) in zip(keys, wanted):
+            if key in self._inside or key in todo:
+                continue
+            values: dict[str, Any] = {}
             for p, e in corner.items():
                 values[p] = self.end(p, e)
             values.update(at)
-            label = tuple(sorted([*corner.items(), *((p, render(x, self.units.get(p, ""), prec=4))
-                                                     for p, x in at.items())]))
-            got = self._inside[key] = self._run(values, label, typical=False)
-        return got
+            todo[key] = (values, point_label(dict(at), self.units, dict(corner)))
+        if todo:
+            made = self.batch([v for v, _ in todo.values()], [lb for _, lb in todo.values()])
+            self._inside.update(zip(todo, made))
+        return [self._inside[k] for k in keys]
+
+    def corners_at(self, assigns: Iterable[Iterable[tuple[str, str]]]) -> list[Run]:
+        """The kept corner runs of many corners (see :meth:`corner`), in the order asked; those
+        not made yet are made in one :meth:`batch` call (an array-evaluating derive module runs
+        once for all of them; the other modules share replay as in single runs)."""
+        keys = [tuple(sorted(a)) for a in assigns]
+        todo: dict[Assign, dict[str, Any]] = {}
+        for key in keys:
+            if key in self._corners or key in todo:
+                continue
+            if not key:  # the typical run is made first, in __init__: never here
+                continue
+            todo[key] = {p: self.end(p, e) for p, e in key}
+        if len(todo) == 1:
+            (key,) = todo
+            self.corner(key)
+        elif todo:
+            made = self.batch(list(todo.values()), list(todo))
+            self._corners.update(zip(todo, made))
+        return [self._corners[k] for k in keys]
 
     def point(self, at: dict[str, float], label: Assign = ()) -> Run:
         """A run with the toleranced inputs in ``at`` at the given values (a sample); not kept."""
@@ -276,12 +351,11 @@ class Runner:
         reads: list[list[frozenset[tuple[str, str]]]] = [[] for _ in range(n)]
         varying = {p for p in self.tol if len({at.get(p) for at in points}) > 1}
         for module, tree in zip(self.modules, self._trees):
-            done = False
+            rest: Iterable[int] = range(n)
             if getattr(module, "VECTOR", False) and n > 1:
-                done = self._vector(module, ctxs, varying, reads, np)
-            if not done:
-                for i, ctx in enumerate(ctxs):
-                    reads[i].append(self._one(module, tree, ctx))
+                rest = self._vector_groups(module, ctxs, list(range(n)), varying, reads, np)
+            for i in rest:
+                reads[i].append(self._one(module, tree, ctxs[i]))
         self.made += n
         return [Run(labels[i], c._values, c.out, c.missing, c.notes, tuple(reads[i]), c.series)
                 for i, c in enumerate(ctxs)]
@@ -312,27 +386,60 @@ class Runner:
             ctx.notes.update(hit[2])
         return hit[3]
 
+    def _vector_groups(self, module: Any, ctxs: list[Ctx], idx: list[int], varying: set[str],
+                       reads: list, np: Any) -> list[int]:
+        """Array calls of an opted-in module over the contexts ``idx``: one call where they agree
+        on what earlier modules published (numbers and flags may differ: arrays), else one call
+        per group of contexts that agree; the indices left to run one by one."""
+        got = self._vector(module, [ctxs[i] for i in idx], varying, reads, idx, np)
+        if got == "done":
+            return []
+        if got == "fails" or len(idx) < 2:
+            return idx
+        groups: dict[Any, list[int]] = {}
+        for i in idx:  # split by what differs: which names, missing, texts (and flags)
+            c = ctxs[i]
+            groups.setdefault(_signature(c, flags=got == "flags"), []).append(i)
+        if len(groups) == 1:  # nothing to split on: the module is not array-safe here
+            return idx
+        rest: list[int] = []
+        for members in groups.values():
+            if len(members) == 1:
+                rest.extend(members)
+            else:
+                rest.extend(self._vector_groups(module, ctxs, members, varying, reads, np))
+        return sorted(rest)
+
     def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
-                np: Any) -> bool:
-        """One call of an opted-in module over every context; False to fall back to scalars."""
+                idx: list[int], np: Any) -> str:
+        """One call of an opted-in module over every context: "done"; "split" where the
+        contexts differ in what earlier modules published (call per group), "flags" where the
+        module raised on flags that differ (call per group of equal flags), "fails" where it
+        raised otherwise (not array-safe: every point one by one)."""
         n = len(ctxs)
         values = dict(ctxs[0]._values)
         for p in varying:
-            values[p] = np.array([c._values[p] for c in ctxs], dtype=float)
+            col = [c._values[p] for c in ctxs]
+            if any(x != col[0] for x in col):
+                values[p] = np.array(col, dtype=float)
         first = ctxs[0]
         out: dict[str, Any] = {}
+        flags = False
         for name in first.out:
             col = [c.out.get(name, _GONE) for c in ctxs]
             if any(x is _GONE for x in col):
-                return False
+                return "split"
             if all(_same_value(x, col[0]) for x in col):
                 out[name] = col[0]
+            elif all(isinstance(x, bool) for x in col):
+                out[name] = np.array(col, dtype=bool)
+                flags = True
             elif all(_is_number(x) for x in col):
                 out[name] = np.array(col, dtype=float)
             else:
-                return False
-        if any(c.missing != first.missing for c in ctxs):
-            return False
+                return "split"
+        if any(len(c.out) != len(first.out) or c.missing != first.missing for c in ctxs):
+            return "split"
         actx = Ctx(self.design, values, self.catalogue, typical=False)
         actx.out = dict(out)
         actx.missing = dict(first.missing)
@@ -341,12 +448,15 @@ class Runner:
             with np.errstate(all="ignore"):
                 module.derive(actx)
         except (TypeError, ValueError):  # code that is not array-safe: per-element fallback
+            if flags:
+                return "flags"
             self.fallbacks += 1
-            return False
+            return "fails"
         self.vector_calls += 1
         new = {k: v for k, v in actx.out.items() if k not in before}
         got = frozenset((kind, name) for kind, name, _ in actx.reads)
         self.read_fields.update(name for kind, name in got if kind == "v")
+        missing = {k: v for k, v in actx.missing.items() if k not in first.missing}
         for i, c in enumerate(ctxs):
             for k, v in new.items():
                 if isinstance(v, np.ndarray) and v.shape == (n,):
@@ -356,10 +466,10 @@ class Runner:
                 else:
                     x = v
                 c.out[k] = x
-            c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
+            c.missing.update(missing)
             c.notes.update({k: _element(v, i, n) for k, v in actx.notes.items()})
-            reads[i].append(got)
-        return True
+            reads[idx[i]].append(got)
+        return "done"
 
     # dependencies ---------------------------------------------------------------------------
     def module_deps(self) -> list[frozenset[str]]:
@@ -394,6 +504,16 @@ class Runner:
             elif n in self.owner:
                 found |= md[self.owner[n]]
         return tuple(p for p in self.tol if p in found)
+
+
+def _signature(c: Ctx, flags: bool) -> tuple:
+    """What a context's earlier modules published, as far as an array call must agree on it:
+    the names, what is missing, and every value that is not a number (nor, unless ``flags``,
+    a flag)."""
+    keep = [(k, _key(v)) for k, v in c.out.items()
+            if not _is_number(v) and (flags or not isinstance(v, bool))]
+    return (tuple(sorted(c.out)), tuple(sorted((k, tuple(v)) for k, v in c.missing.items())),
+            tuple(sorted(keep, key=lambda kv: kv[0])))
 
 
 def _element(note: Any, i: int, n: int) -> str:

@@ -28,7 +28,6 @@ import numpy as np
 
 from reviewer.margins import SLACK, margins
 from reviewer.spread import Spread
-from reviewer.units import render
 
 DEFAULT_SEED = 12
 Z95 = 1.959963984540054
@@ -89,6 +88,8 @@ def sample_runs(runner: Any, n: int, seed: int = DEFAULT_SEED,
                 step: Callable[[], None] | None = None, chunk: int = 64) -> list[Any]:
     """``n`` runs of the derive step at sampled inputs, made in batches of ``chunk`` (see
     :meth:`reviewer.quantities.Runner.batch`); ``step`` is called once per sample."""
+    from reviewer.quantities import point_label
+
     values = draw(runner.spans, runner.tol, n, seed)
     runs: list[Any] = []
     for start in range(0, n, chunk):
@@ -96,8 +97,7 @@ def sample_runs(runner: Any, n: int, seed: int = DEFAULT_SEED,
         for i in range(start, min(n, start + chunk)):
             at = {p: float(v[i]) for p, v in values.items()}
             points.append(at)
-            labels.append(tuple((p, render(x, runner.units.get(p, ""), prec=4))
-                                for p, x in at.items()))
+            labels.append(point_label(at, runner.units))
         runs.extend(runner.batch(points, labels))
         if step is not None:
             for _ in points:

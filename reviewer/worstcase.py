@@ -42,19 +42,18 @@ def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
     """The runs rule ``c`` is judged on, and a sentence saying how they were chosen."""
     deps = runner.deps(rule_names(c))
     typ = runner.typical
-    runs = [typ]
-    for p in deps:
-        runs.extend(runner.corner(((p, e),)) for e in ENDS)
     k = len(deps)
     if k == 0:
-        return runs, NO_INPUTS
+        return [typ], NO_INPUTS
+    ends = [((p, e),) for p in deps for e in ENDS]
     if k <= VERTEX_INPUTS:
-        for ends in itertools.product(ENDS, repeat=k):
-            runs.append(runner.corner(zip(deps, ends)))
+        vertices = [tuple(zip(deps, combo)) for combo in itertools.product(ENDS, repeat=k)]
+        got = runner.corners_at(ends + vertices)  # one batch for the ends and every vertex
+        runs = [typ, *got]
         method = (f"worst of every vertex of the {k} toleranced input{'s' if k > 1 else ''}"
                   f" it depends on ({2 ** k} corners)")
     else:
-        runs, method = _search(c, runner, deps, runs)
+        runs, method = _search(c, runner, deps, [typ, *runner.corners_at(ends)])
     return _interior(c, runner, deps, runs, method)
 
 
@@ -82,8 +81,8 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
                 continue  # typical on or above the chord of the ends: no dip shows; not probed
         # else one end is not applicable or not computable (a thermal runaway, say): the margin
         # may fall all the way to that edge, so the inside is always probed
-        probe = [runner.inside({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS]
-        ends = [runner.corner(((p, e),)) for e in ENDS]
+        probe = runner.insides([({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS])
+        ends = runner.corners_at(((p, e),) for e in ENDS)
         inner = margins(c, probe).score
         outer = margins(c, ends).score
         inner, outer = inner[inner < np.inf], outer[outer < np.inf]  # where it applies
@@ -101,7 +100,9 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
             runs.append(run)
             return float(margins(c, [run]).score[0])
 
-        t = _golden(f, [f(x) for x in LEVELS])
+        first = runner.insides([(fixed, {**at, p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS])
+        runs.extend(first)  # the probes in one batch, then the golden section one by one
+        t = _golden(f, [float(x) for x in margins(c, first).score])
         at[p] = s.lo + t * (s.hi - s.lo)
     return runs, method + (f", and inside the tolerance of {', '.join(bent)} where the margin "
                            "is smallest away from its ends (golden-section search)")
@@ -143,25 +144,41 @@ def _search(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any]) ->
         lo, hi = score[1 + 2 * i], score[2 + 2 * i]
         assign[p] = "max" if hi < lo else "min"
 
-    def value(a: dict[str, str]) -> tuple[float, Any]:
-        run = runner.corner(a.items())
-        runs.append(run)
-        return float(margins(c, [run]).score[0]), run
+    def scores(trials: list[dict[str, str]], keep: bool = True) -> tuple[list[Any], list[float]]:
+        got = runner.corners_at(t.items() for t in trials)  # one batch
+        if keep:
+            runs.extend(got)
+        return got, [float(x) for x in margins(c, got).score]
 
-    best, _ = value(assign)
+    best = scores([assign])[1][0]
     for _ in range(3):  # passes of the local search
         better = False
-        for p in deps:
-            trial = dict(assign)
-            trial[p] = "min" if assign[p] == "max" else "max"
-            s, _ = value(trial)
-            if s < best:
-                best, assign, better = s, trial, True
+        # every single flip of the current corner in one batch; after a flip that lowers the
+        # margin is kept, the flips after it are made again from the new corner (the same
+        # first-improvement search as one flip at a time)
+        start = 0
+        while start < len(deps):
+            trials = []
+            for p in deps[start:]:
+                trial = dict(assign)
+                trial[p] = "min" if assign[p] == "max" else "max"
+                trials.append(trial)
+            made, got = scores(trials, keep=False)
+            start_again = None
+            for j, (trial, sc) in enumerate(zip(trials, got)):
+                if sc < best:
+                    best, assign, better = sc, trial, True
+                    start_again = start + j + 1
+                    break
+            # judged on the flips a one-at-a-time search makes: up to the one kept
+            runs.extend(made if start_again is None else made[:j + 1])
+            if start_again is None:
+                break
+            start = start_again
         if not better:
             break
     rng = random.Random(zlib.crc32(f"{c.rule.id}[{c.subject}]".encode()))
-    for _ in range(SAMPLED_VERTICES):
-        value({p: rng.choice(ENDS) for p in deps})
+    scores([{p: rng.choice(ENDS) for p in deps} for _ in range(SAMPLED_VERTICES)])
     return runs, (f"{len(deps)} toleranced inputs: combined corner from the one-at-a-time "
                   f"directions, local search by single flips, and {SAMPLED_VERTICES} random "
                   "vertices")
