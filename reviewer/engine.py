@@ -72,7 +72,10 @@ def _needs(sheet: Sheet, names: frozenset[str]) -> list[str]:
     return needs
 
 
-def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
+def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any],
+          sensitivity: bool = True) -> Finding:
+    """Rule ``c`` judged on ``sheet`` at its worst run; with ``sensitivity`` False, without the
+    sensitivity ranking (a caller that wants the verdict and its numbers only)."""
     rule = c.rule
     if rule.kind == "question":
         return _question(c, answers)
@@ -88,7 +91,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any]) -> Finding:
     if needs:
         return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)))
     f = finding_at(c, sheet, runs, m, method)
-    if sheet.runner is not None and wanted(f):
+    if sensitivity and sheet.runner is not None and wanted(f):
         f = replace(f, sensitivity=swings(c, sheet.runner), sensitivity_method=METHOD)
     return f
 

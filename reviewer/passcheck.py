@@ -179,36 +179,95 @@ class _Judge:
         self.answers = answers
         self.focus = frozenset(n for e in (c.value, c.limit, c.fails_when) if e is not None
                                for n in e.names)
+        self.modules = _modules_for(c)
         self.cache: dict[tuple, Finding | None] = {}
+        self.sheets: dict[tuple, Any] = {}
         self.trees: list[Any] = []  # replay trees shared by the re-reviews (one field differs)
         self.runs = 0
 
-    def judged(self, changes: dict[str, Any]) -> Finding | None:
-        """The finding on the design with ``changes``; None when that design is not valid."""
+    def _sheet(self, key: tuple, changes: dict[str, Any]) -> Any:
+        """The calculation sheet (typical run) of the design with ``changes``; None when that
+        design is not valid or the physics cannot take it (a zero rating, say)."""
         from pydantic import ValidationError
 
-        from reviewer.engine import judge
         from reviewer.quantities import compute
 
-        key = tuple(sorted((k, repr(v)) for k, v in changes.items()))
-        if key not in self.cache:
+        if key not in self.sheets:
             try:
                 d2 = with_fields(self.design, changes)
             except (ValidationError, ValueError, TypeError):
-                self.cache[key] = None
+                self.sheets[key] = None
                 return None
             self.runs += 1
             try:
-                sheet = compute(d2, focus=self.focus, combined=False, ends=False,
-                                trees=self.trees)
-                self.cache[key] = judge(self.c, sheet, self.answers)
-            except (ArithmeticError, ValueError):  # a value the physics cannot take (a zero rating)
+                self.sheets[key] = compute(d2, focus=self.focus, combined=False, ends=False,
+                                           trees=self.trees, modules=self.modules)
+            except (ArithmeticError, ValueError):
+                self.sheets[key] = None
+        return self.sheets[key]
+
+    def judged(self, changes: dict[str, Any]) -> Finding | None:
+        """The finding on the design with ``changes``; None when that design is not valid."""
+        from reviewer.engine import judge
+
+        key = tuple(sorted((k, repr(v)) for k, v in changes.items()))
+        if key not in self.cache:
+            sheet = self._sheet(key, changes)
+            try:
+                self.cache[key] = None if sheet is None else judge(self.c, sheet, self.answers,
+                                                                   sensitivity=False)
+            except (ArithmeticError, ValueError):  # a value the physics cannot take
                 self.cache[key] = None
         return self.cache[key]
 
     def passes(self, changes: dict[str, Any]) -> bool:
+        """Whether the finding passes on the design with ``changes``. Stops early: a run among
+        the typical, the one-at-a-time ends and the vertices that already fails the rule means
+        the finding fails (its worst run is at least as bad), with no further search."""
+        key = tuple(sorted((k, repr(v)) for k, v in changes.items()))
+        if key not in self.cache:
+            sheet = self._sheet(key, changes)
+            if sheet is None:
+                return False
+            try:
+                if _fails_somewhere(self.c, sheet.runner):
+                    return False
+            except (ArithmeticError, ValueError):
+                return False
         got = self.judged(changes)
         return got is not None and got.outcome == "pass"
+
+
+def _fails_somewhere(c: Any, runner: Any) -> bool:
+    """Whether rule ``c`` fails in a run of the first stage of its worst-case search (the
+    typical run, the one-at-a-time ends and, for few inputs, every vertex): then it fails."""
+    import itertools
+
+    from reviewer.margins import margins, rule_names
+    from reviewer.worstcase import ENDS, VERTEX_INPUTS
+
+    deps = runner.deps(rule_names(c))
+    wanted = [((p, e),) for p in deps for e in ENDS]
+    if len(deps) <= VERTEX_INPUTS:
+        wanted += [tuple(zip(deps, combo)) for combo in itertools.product(ENDS, repeat=len(deps))]
+    runs = [runner.typical, *runner.corners_at(wanted)]
+    m = margins(c, runs)
+    return any(m.failed(i) for i in range(len(runs)))
+
+
+def _modules_for(c: Any) -> list[Any]:
+    """The derive modules the verdict of rule ``c`` can depend on: those in order up to the last
+    one that publishes a name the rule reads (a module reads only what earlier ones published,
+    so the later ones cannot change it)."""
+    from reviewer.derive import MODULES
+    from reviewer.margins import rule_names
+
+    names = rule_names(c)
+    last = -1
+    for i, m in enumerate(MODULES):
+        if any(n in names for d in m.QUANTITIES for n in d.names()):
+            last = i
+    return list(MODULES[:last + 1])
 
 
 def _field_values(design: Any) -> tuple[dict[str, Any], dict[str, str]]:
@@ -294,8 +353,10 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         return j.judged({**extra, field: _as_input(field, stored, unit)})
 
     def test(x: float) -> bool:
-        got = judged(x)
-        return got is not None and got.outcome == "pass"
+        if x <= 0:
+            return False
+        stored, _ = _stored(current, x)
+        return j.passes({**extra, field: _as_input(field, stored, unit)})
 
     firsts = {up: candidate(solved * (1 + (1 if up else -1) * MARGIN) if solved else solved, up)
               for up in directions}

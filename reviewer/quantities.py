@@ -28,6 +28,7 @@ depends on, or a search), which asks the sheet's runner for the corners it needs
 from __future__ import annotations
 
 import re
+from itertools import islice
 from dataclasses import dataclass, field
 from typing import Any, Iterable
 
@@ -365,20 +366,32 @@ class Runner:
         hit = _lookup(tree, ctx) if self.replay else None
         if hit is None:
             ctx.reads = []
-            out0, missing0, notes0 = set(ctx.out), set(ctx.missing), set(ctx.notes)
+            n_out, n_missing, n_notes = len(ctx.out), len(ctx.missing), len(ctx.notes)
             module.derive(ctx)
-            hit = ({k: v for k, v in ctx.out.items() if k not in out0},
-                   {k: v for k, v in ctx.missing.items() if k not in missing0},
-                   {k: v for k, v in ctx.notes.items() if k not in notes0},
+            # what the module added (dicts keep insertion order; a key it published again
+            # keeps its old place, and is not its own, as before)
+            hit = (dict(islice(ctx.out.items(), n_out, None)),
+                   dict(islice(ctx.missing.items(), n_missing, None)),
+                   dict(islice(ctx.notes.items(), n_notes, None)),
                    frozenset((kind, name) for kind, name, _ in ctx.reads))
             if self.replay:
                 # a design field that is not toleranced has the same value in every run of
                 # this runner: only the reads that can differ go into the replay tree
-                # nor do reads of what the module published itself (it computes them again)
+                # nor do reads of what the module published itself (it computes them again);
+                # a read made again is the same read (the values a module sees do not change
+                # while it runs): keyed once
                 own = hit[0].keys() | hit[1].keys()
-                _insert(tree, [r for r in ctx.reads
-                               if ((self._shared or r[1] in self._varies) if r[0] == "v"
-                                   else r[1] not in own)], hit)
+                seen: set[tuple[str, str]] = set()
+                keyed = []
+                for r in ctx.reads:
+                    kn = (r[0], r[1])
+                    if kn in seen:
+                        continue
+                    seen.add(kn)
+                    if ((self._shared or r[1] in self._varies) if r[0] == "v"
+                            else r[1] not in own):
+                        keyed.append(r)
+                _insert(tree, keyed, hit)
             self.read_fields.update(name for kind, name in hit[3] if kind == "v")
         else:
             ctx.out.update(hit[0])
@@ -572,9 +585,7 @@ def design_values(design: Any) -> tuple[dict[str, Any], dict[str, Span], dict[st
         for name, info in type(model).model_fields.items():
             path = f"{prefix}{name}"
             value = getattr(model, name)
-            tag = next((m for m in info.metadata if isinstance(m, UnitTag)), None)
-            if tag is None:
-                tag = _unit_in_annotation(info.annotation)
+            tag = _tag_of(type(model), name, info, UnitTag)
             if isinstance(value, BaseModel):
                 walk(value, type(value), path + ".")
                 continue
@@ -597,6 +608,23 @@ def design_values(design: Any) -> tuple[dict[str, Any], dict[str, Span], dict[st
     return values, spans, units
 
 
+_TAGS: dict[tuple[type, str], Any] = {}
+
+
+def _tag_of(cls: type, name: str, info: Any, unit_tag: type) -> Any:
+    """The unit tag of field ``name`` of model ``cls`` (found once per model class)."""
+    key = (cls, name)
+    try:
+        return _TAGS[key]
+    except KeyError:
+        pass
+    tag = next((m for m in info.metadata if isinstance(m, unit_tag)), None)
+    if tag is None:
+        tag = _unit_in_annotation(info.annotation)
+    _TAGS[key] = tag
+    return tag
+
+
 def _none_fields(cls: Any, prefix: str, values: dict[str, Any], units: dict[str, str]) -> None:
     """An absent optional table: its fields exist as None so that derive code can ask for them."""
     from reviewer.design.fields import UnitTag
@@ -607,8 +635,7 @@ def _none_fields(cls: Any, prefix: str, values: dict[str, Any], units: dict[str,
             _none_fields(sub, f"{prefix}{name}.", values, units)
         else:
             values[f"{prefix}{name}"] = None
-            tag = next((m for m in info.metadata if isinstance(m, UnitTag)), None) \
-                or _unit_in_annotation(info.annotation)
+            tag = _tag_of(cls, name, info, UnitTag)
             if tag is not None:
                 units[f"{prefix}{name}"] = tag.unit
 
@@ -654,7 +681,7 @@ def catalogue(modules: list[Any] | None = None) -> dict[str, Declared]:
 
 def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] | None = None,
             replay: bool = True, combined: bool = True, ends: bool = True,
-            trees: list[Any] | None = None) -> Sheet:
+            trees: list[Any] | None = None, modules: list[Any] | None = None) -> Sheet:
     """Run every derive module over the design's tolerance corners and return the sheet.
 
     ``focus`` names the quantities whose extremes the sheet should show (those the rules judge);
@@ -666,9 +693,10 @@ def compute(design: Any, max_runs: int = 400, focus: set[str] | frozenset[str] |
     worst-case search needs (:mod:`reviewer.worstcase`). With ``ends`` False, the sheet has the
     typical run only (a caller that judges one rule next, whose own search makes the corners it
     needs: the pass-value check). ``trees``: replay trees shared between such calls (see
-    :class:`Runner`).
+    :class:`Runner`). ``modules``: the derive modules to run, in order (default all; a caller
+    that judges one rule may leave out the modules after the last one it reads).
     """
-    runner = Runner(design, replay=replay, trees=trees)
+    runner = Runner(design, replay=replay, trees=trees, modules=modules)
     if not ends:
         return _sheet(runner, [runner.typical])
     return sheet_of(runner, max_runs=max_runs, focus=focus, combined=combined)
@@ -720,20 +748,21 @@ def sheet_of(runner: Runner, max_runs: int = 400,
 
 def _sheet(runner: Runner, runs: list[Run]) -> Sheet:
     typ = runs[0]
+    several = len(runs) > 1
     cat = runner.catalogue
     quantities: dict[str, Quantity] = {}
     for n, v in typ.out.items():
         d = cat[n]
-        values = tuple(r.out.get(n) for r in runs)
-        lo, hi = _extremes(values, v)
+        values = tuple(r.out.get(n) for r in runs) if several else (v,)
+        lo, hi = _extremes(values, v) if several else (v, v)
         quantities[n] = Quantity(n, d.unit, d.label, v, lo, hi, values, d.kind, "derived",
                                  typ.notes.get(n, ""))
     for path, value in runner.base.items():
         if value is None or isinstance(value, (list, dict)):
             continue
         name = f"design.{path}"
-        values = tuple(r.values[path] for r in runs)
-        lo, hi = _extremes(values, value)
+        values = tuple(r.values[path] for r in runs) if several else (value,)
+        lo, hi = _extremes(values, value) if several else (value, value)
         kind = "flag" if isinstance(value, bool) else ("number" if _is_number(value) else "text")
         quantities[name] = Quantity(name, runner.units.get(path, ""), path, value, lo, hi, values,
                                     kind, "design")
