@@ -173,7 +173,8 @@ def _plain(text: str, unit: str) -> str:
 class _Judge:
     """Judges one compiled rule on designs that differ from the reviewed one in a few fields."""
 
-    def __init__(self, design: Any, c: Any, answers: dict[str, Any]):
+    def __init__(self, design: Any, c: Any, answers: dict[str, Any],
+                 trees: list[Any] | None = None):
         self.design = design
         self.c = c
         self.answers = answers
@@ -182,7 +183,9 @@ class _Judge:
         self.modules = _modules_for(c)
         self.cache: dict[tuple, Finding | None] = {}
         self.sheets: dict[tuple, Any] = {}
-        self.trees: list[Any] = []  # replay trees shared by the re-reviews (one field differs)
+        # replay trees shared by the re-reviews (one field differs), and with the review itself
+        # where its runner keys every read (a module that does not read the field replays)
+        self.trees: list[Any] = [] if trees is None else trees[:len(self.modules)]
         self.runs = 0
 
     def _sheet(self, key: tuple, changes: dict[str, Any]) -> Any:
@@ -281,7 +284,8 @@ def _field_values(design: Any) -> tuple[dict[str, Any], dict[str, str]]:
 
 
 def find_fix(design: Any, c: Any, f: Finding, answers: dict[str, Any],
-             fields: tuple[dict[str, Any], dict[str, str]] | None = None) -> Fix | None:
+             fields: tuple[dict[str, Any], dict[str, str]] | None = None,
+             trees: list[Any] | None = None) -> Fix | None:
     """A verified single-field change that makes finding ``f`` pass, or None when none is found.
 
     Parameters
@@ -294,9 +298,14 @@ def find_fix(design: Any, c: Any, f: Finding, answers: dict[str, Any],
         A failing finding with a finite ``pass_value`` and a ``pass_field``.
     answers : dict
         Checklist answers, as for :func:`reviewer.engine.judge`.
+    fields : tuple, optional
+        The design's field values and units (:func:`_field_values`), when known.
+    trees : list, optional
+        Replay trees that key every read (:attr:`reviewer.quantities.Runner.shared_trees` of
+        the review's runner) to share.
     """
     values, units = fields or _field_values(design)
-    j = _Judge(design, c, answers)
+    j = _Judge(design, c, answers, trees)
     field = f.pass_field
     if field not in values:
         return None
@@ -456,6 +465,8 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
     """
     compiled = {(c.rule.id, c.subject): c for c in book.compiled}
     fields = None
+    runner = getattr(sheet, "runner", None)
+    trees = runner.shared_trees if runner is not None else None
     out = []
     for f in findings:
         c = compiled.get((f.rule_id, f.subject))
@@ -466,7 +477,7 @@ def verify(findings: list[Finding], design: Any, book: Any, sheet: Any,
             out.append(_no_fix(f, c, sheet, answers, solved=False))
             continue
         fields = fields or _field_values(design)
-        fix = find_fix(design, c, f, answers, fields)
+        fix = find_fix(design, c, f, answers, fields, trees)
         out.append(_with_fix(f, c, sheet, answers, fix) if fix else
                    _no_fix(f, c, sheet, answers, solved=True))
     return out

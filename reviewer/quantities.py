@@ -254,6 +254,13 @@ class Runner:
         """How many runs were made (corners and samples), for the report and the benchmarks."""
         self.typical = self.corner(())
 
+    @property
+    def shared_trees(self) -> list[Any] | None:
+        """The replay trees, when every read is keyed in them (a runner made with ``trees``):
+        a runner of a design that differs in a field or two may then share them (the
+        pass-value check, a what-if review); None otherwise."""
+        return self._trees if self._shared else None
+
     # making runs ----------------------------------------------------------------------------
     def end(self, path: str, end: str) -> float:
         s = self.spans[path]

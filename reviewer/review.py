@@ -122,7 +122,8 @@ def judge_all(design: Design, book: Rulebook, sheet: Sheet,
 def review_design(design: Design, path: str, book: Rulebook,
                   record: rec.Record | None = None) -> Review:
     record = record or rec.Record(design=Path(path).name)
-    sheet = compute(design, focus=judged_names(book), combined=False)
+    # replay trees that key every read: the pass-value check's re-reviews share them
+    sheet = compute(design, focus=judged_names(book), combined=False, trees=[])
     findings = judge_all(design, book, sheet, answers_of(design, record))
     sheet = with_all_runs(sheet)  # the sheet's extremes over every corner the rules were judged on
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled),
