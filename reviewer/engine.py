@@ -18,7 +18,7 @@ from reviewer.quantities import Run, Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
 from reviewer.sensitivity import METHOD, swings, wanted
 from reviewer.shown import distinct, figure
-from reviewer.worstcase import runs_for
+from reviewer.worstcase import prefetch, runs_for
 
 __all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text", "corner_text"]
 
@@ -26,7 +26,14 @@ __all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text",
 def evaluate(book: Rulebook, sheet: Sheet, answers: dict[str, Any] | None = None) -> list[Finding]:
     """Judge every rule; ``answers`` maps checklist question ids to ("yes"|"no"|"not_applicable", note)."""
     answers = answers or {}
+    if sheet.runner is not None:  # the corners the rules share, made in one batch
+        prefetch([c for c in book.compiled if _applies_known(c, sheet)], sheet.runner)
     return [judge(c, sheet, answers) for c in book.compiled]
+
+
+def _applies_known(c: Compiled, sheet: Sheet) -> bool:
+    """Whether the rule gets as far as its worst-case search (its ``applies`` can be judged)."""
+    return c.applies is None or not _needs(sheet, c.applies.names - set(c.params))
 
 
 def _base(c: Compiled, outcome: str, **kw: Any) -> Finding:

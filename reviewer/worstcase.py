@@ -38,6 +38,26 @@ SAMPLED_VERTICES = 64
 ENDS = ("min", "max")
 
 
+def prefetch(compiled: list[Compiled], runner: Any) -> int:
+    """Make, in one :meth:`~reviewer.quantities.Runner.corners_at` batch, the one-at-a-time
+    ends and (for at most :data:`VERTEX_INPUTS` inputs) every vertex that each of the rules
+    ``compiled`` will be judged on: rules share corners, and an array-evaluating derive module
+    then runs once for all of them. :func:`runs_for` finds them made. How many corners asked."""
+    wanted: dict[tuple, None] = {}
+    for c in compiled:
+        if c.rule.kind == "question":
+            continue
+        deps = runner.deps(rule_names(c))
+        for p in deps:
+            for e in ENDS:
+                wanted[((p, e),)] = None
+        if len(deps) <= VERTEX_INPUTS:
+            for combo in itertools.product(ENDS, repeat=len(deps)):
+                wanted[tuple(sorted(zip(deps, combo)))] = None
+    runner.corners_at(list(wanted))
+    return len(wanted)
+
+
 def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
     """The runs rule ``c`` is judged on, and a sentence saying how they were chosen."""
     deps = runner.deps(rule_names(c))
