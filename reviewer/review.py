@@ -120,10 +120,17 @@ def judge_all(design: Design, book: Rulebook, sheet: Sheet,
 
 
 def review_design(design: Design, path: str, book: Rulebook,
-                  record: rec.Record | None = None) -> Review:
+                  record: rec.Record | None = None, like: Review | None = None) -> Review:
+    """Review ``design``. ``like``: a review of a design that differs from this one in a few
+    fields (the design as filed, for a what-if review): its replay trees are shared, so every
+    derive module that reads none of the changed fields (nor anything they change) replays
+    instead of running again. The findings are the same either way."""
     record = record or rec.Record(design=Path(path).name)
     # replay trees that key every read: the pass-value check's re-reviews share them
-    sheet = compute(design, focus=judged_names(book), combined=False, trees=[])
+    runner = like.sheet.runner if like is not None else None
+    shared = runner.shared_trees if runner is not None else None
+    sheet = compute(design, focus=judged_names(book), combined=False,
+                    trees=shared if shared is not None else [])
     findings = judge_all(design, book, sheet, answers_of(design, record))
     sheet = with_all_runs(sheet)  # the sheet's extremes over every corner the rules were judged on
     return Review(path, design, sheet, tuple(findings), record, tuple(book.disabled),

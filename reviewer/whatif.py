@@ -114,13 +114,15 @@ def proposals_of(record: Any) -> dict[str, str]:
     return {k: p.value for k, p in sorted(record.proposals.items())}
 
 
-def review_with_proposals(path: str | Path, book: Any, record: Any) -> Any:
+def review_with_proposals(path: str | Path, book: Any, record: Any, filed: Any = None) -> Any:
     """Review the design at ``path`` with the record's proposals applied (a what-if review).
 
     The returned :class:`reviewer.review.Review` carries ``record`` (proposals included), so that
-    a view or an export can say which changes it was computed with.
+    a view or an export can say which changes it was computed with. ``filed``: the review of
+    the design as filed, when there is one: the derive modules that read no proposed field
+    replay from it (see :func:`reviewer.review.review_design`).
     """
     from reviewer.review import review_design
 
     design = apply(path, proposals_of(record))
-    return review_design(design, str(path), book, record)
+    return review_design(design, str(path), book, record, like=filed)

@@ -111,14 +111,14 @@ def compute(path: str | Path, book, record: rec.Record,
     if not proposals:
         return Snapshot(filed, filed, mtime=mtime)
     try:
-        current = _reviewed(cache, text, str(p), book, record, proposals)
+        current = _reviewed(cache, text, str(p), book, record, proposals, filed)
     except InputError as e:
         return Snapshot(filed, filed, proposal_problems=tuple(e.problems), mtime=mtime)
     return Snapshot(filed, current, mtime=mtime)
 
 
 def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
-              proposals: dict[str, str]) -> Review:
+              proposals: dict[str, str], like: Review | None = None) -> Review:
     """The review of ``text`` with ``proposals``: from the cache when the inputs are the same."""
     from reviewer.review import answers_of, judge_all, review_design
     from reviewer.whatif import apply_to_text
@@ -128,7 +128,7 @@ def _reviewed(cache: dict, text: str, name: str, book, record: rec.Record,
     hit = cache.get(key)
     if hit is None:
         design = apply_to_text(text, name, proposals)
-        review = review_design(design, name, book, record)
+        review = review_design(design, name, book, record, like=like)
         if len(cache) > 16:
             cache.clear()
         cache[key] = (review, answers_key)
