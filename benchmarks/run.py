@@ -13,7 +13,10 @@ It prints, each as a median over ``--repeats`` (wall clock, this machine):
 4. an in-process review of each bundled example (rules loaded once);
 5. a batch of ``--variants`` toleranced variants of the careful example in one process, and the
    time that rate gives for 1,000;
-6. ``--samples`` yield samples of the careful example, and the time that rate gives for 10,000.
+6. ``--samples`` yield samples of the careful example, and the time that rate gives for 10,000;
+7. a what-if re-review of each bundled example (one proposed field, as the walkthrough makes it:
+   the design as filed already reviewed), and the walkthrough's launch to its first screen (a
+   fresh interpreter, headless; ``--no-walk`` leaves it out).
 
 Set ``PYTHONPATH`` to another checkout to measure it with the same script (figures a checkout
 cannot produce are left out).
@@ -58,6 +61,7 @@ def main() -> None:
     ap.add_argument("--repeats", type=int, default=7)
     ap.add_argument("--variants", type=int, default=40)
     ap.add_argument("--samples", type=int, default=200)
+    ap.add_argument("--no-walk", action="store_true", help="leave out the walkthrough launch")
     a = ap.parse_args()
     import reviewer
 
@@ -97,6 +101,11 @@ def main() -> None:
         runs = runner.made if runner is not None else r.sheet.run_count
         row(f"review {path.stem}", t, f"{runs} derive runs, {len(r.findings)} findings")
 
+    print("what-if re-review (one proposed field; the design as filed reviewed before)")
+    whatif(book, a.repeats)
+    if not a.no_walk:
+        walk_launch(a.repeats)
+
     print("batches")
     variants(a.variants, book)
     try:
@@ -110,6 +119,55 @@ def main() -> None:
     t = time.perf_counter() - t
     row(f"{a.samples} yield samples of careful_12v_sine", t,
         f"→ {t / a.samples * 10000:.0f} s for 10,000 at this rate")
+
+
+WHATIF = {"naive_bench_pchannel": ("timing.dead_time", "800 ns"),
+          "careful_12v_sine": ("timing.dead_time", "800 ns"),
+          "mains_output_transformer": ("output.v_rms", "48 V"),
+          "nchannel_bootstrap_quasi": ("timing.dead_time", "800 ns")}
+"""The field each example's what-if proposes, and the value (as the walkthrough benchmark)."""
+
+
+def whatif(book, repeats: int) -> None:
+    """The walkthrough's what-if path in-process: the proposal applied to the file's text and
+    the changed design reviewed, sharing the filed review's runs where the checkout can."""
+    import inspect
+
+    from reviewer.review import review_design, review_file
+    from reviewer.whatif import apply_to_text
+
+    shares = "like" in inspect.signature(review_design).parameters
+    for path in sorted((ROOT / "example_designs").glob("*.toml")):
+        field, value = WHATIF.get(path.stem, ("timing.dead_time", "800 ns"))
+        text = path.read_text(encoding="utf-8")
+        filed = review_file(path, book=book)
+        kw = {"like": filed} if shares else {}
+
+        tried = iter(range(1, 1000))
+
+        def once() -> None:  # a new value each time (a value tried before would replay whole)
+            number, unit = value.split(" ", 1)
+            design = apply_to_text(text, str(path),
+                                   {field: f"{float(number) * (1 + next(tried) / 100):g} {unit}"})
+            review_design(design, str(path), book, **kw)
+
+        row(f"what-if {path.stem} ({field} = {value})", median_of(once, repeats))
+
+
+def walk_launch(repeats: int) -> None:
+    """Spawn → the walkthrough's first screen for the careful example (benchmarks/tui_bench)."""
+    try:
+        sys.path.insert(0, str(ROOT / "benchmarks"))
+        from tui_bench import launch
+    except ImportError:
+        return
+    try:
+        wall, first = launch(CAREFUL, repeats)
+    except subprocess.CalledProcessError:
+        print("  (the walkthrough could not be launched headless here)")
+        return
+    row("walkthrough launch → first screen (careful_12v_sine)", wall,
+        f"{first * 1e3:.0f} ms of it from the interpreter's first line")
 
 
 def variants(n: int, book) -> None:
