@@ -71,12 +71,14 @@ def test_physical_ranges(tmp_path, key, value, words):
 
 def test_the_largest_carrier_allowed_is_reviewed_in_time(tmp_path):
     top = ranges.MAX_CARRIER_RATIO * 50.0  # the example's output is 50 Hz
-    # Measured after the merge: 13–16 s, 7 to 10 times the example at its own 20 kHz, because
-    # every failing finding's pass value is verified by re-reviews that re-run the waveform
-    # synthesis (five times as many carrier periods). The bound catches what this test is for,
-    # an input whose time grows without bound (a 2 GHz carrier ran out of memory), not the
-    # speed, which the benchmarks measure; it tightens once the waveform module runs over arrays.
-    o = check(design(tmp_path, with_line(CAREFUL, "carrier", f'"{top:g} Hz"')), factor=25.0)
+    # Measured with the batched worst-case search and the lighter pass-value check (branch
+    # e12, a loaded 2-core machine): 5.0 and 5.1 times the plain example check in the same
+    # session (was 7 to 10). The time still grows with the carrier because the waveform
+    # synthesis covers five times as many carrier periods, and the pass-value re-reviews run it
+    # again. The bound (12 times, over twice the measured ratio) catches what this test is for,
+    # an input whose time grows without bound (a 2 GHz carrier ran out of memory); the
+    # benchmarks measure the speed.
+    o = check(design(tmp_path, with_line(CAREFUL, "carrier", f'"{top:g} Hz"')), factor=12.0)
     assert o.code in (0, 1), o.err
 
 
