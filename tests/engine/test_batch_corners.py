@@ -156,3 +156,33 @@ def test_pass_value_check_sharing_the_review_trees_finds_the_same_fix():
             break
     assert checked
     assert len(MODULES) == len(r.sheet.runner.shared_trees)
+
+
+def test_pass_check_judges_on_the_modules_the_rule_reads_alone():
+    """The verdict on the derive modules up to the last one a rule reads equals the verdict on
+    all of them (a module reads only what earlier ones published), for every rule of the naive
+    example; and the early stop says "fails" only where the full search fails."""
+    from reviewer.engine import judge
+    from reviewer.passcheck import _fails_somewhere, _modules_for
+    from reviewer.quantities import compute
+    from reviewer.review import answers_of
+    from reviewer.rulebook import load_rulebook
+
+    book = load_rulebook()
+    d = load_design(EXAMPLES / "naive_bench_pchannel.toml")
+    answers = answers_of(d)
+    full = compute(d, ends=False)
+    shorter = 0
+    for c in book.compiled:
+        if c.rule.kind == "question":
+            continue
+        mods = _modules_for(c)
+        shorter += len(mods) < len(MODULES)
+        part = compute(d, ends=False, modules=mods)
+        a, b = judge(c, full, answers, sensitivity=False), judge(c, part, answers,
+                                                                sensitivity=False)
+        assert (a.outcome, a.value, a.limit, a.margin, a.corner) == \
+            (b.outcome, b.value, b.limit, b.margin, b.corner), c.rule.id
+        if _fails_somewhere(c, compute(d, ends=False, modules=mods).runner):
+            assert a.outcome == "fail", c.rule.id
+    assert shorter > 0
