@@ -338,15 +338,17 @@ class Runner:
         reads = [self._one(module, tree, ctx) for module, tree in zip(self.modules, self._trees)]
         return Run(label, values, ctx.out, ctx.missing, ctx.notes, tuple(reads), ctx.series)
 
-    def batch(self, points: list[dict[str, float]],
-              labels: list[Assign] | None = None) -> list[Run]:
+    def batch(self, points: list[dict[str, float]], labels: list[Any] | None = None,
+              learn: bool = True) -> list[Run]:
         """Runs at many points at once (samples, say): not kept.
 
         A derive module that sets ``VECTOR = True`` is called once for all points, reading
         numpy arrays (one element per point) for inputs that differ between points and the
         scalars of the others; every other module, and an opted-in module that raises on arrays
         (a plain ``if`` on a value, say), runs once per point as in :meth:`point`. The results
-        are the same either way (tested to 1e-12)."""
+        are the same either way (tested to 1e-12). With ``learn`` False, what the scalar runs
+        compute is not added to the replay trees (samples: points that never come again, whose
+        entries would only fill memory); they still replay what is there."""
         import numpy as np
 
         n = len(points)
@@ -363,13 +365,15 @@ class Runner:
             if getattr(module, "VECTOR", False) and n > 1:
                 rest = self._vector_groups(module, ctxs, list(range(n)), varying, reads, np)
             for i in rest:
-                reads[i].append(self._one(module, tree, ctxs[i]))
+                reads[i].append(self._one(module, tree, ctxs[i], learn))
         self.made += n
         return [Run(labels[i], c._values, c.out, c.missing, c.notes, tuple(reads[i]), c.series)
                 for i, c in enumerate(ctxs)]
 
-    def _one(self, module: Any, tree: _Node, ctx: Ctx) -> frozenset[tuple[str, str]]:
-        """Run (or replay) one module in one scalar context; what it read."""
+    def _one(self, module: Any, tree: _Node, ctx: Ctx,
+             learn: bool = True) -> frozenset[tuple[str, str]]:
+        """Run (or replay) one module in one scalar context; what it read. With ``learn``
+        False, a module that runs is not added to the replay tree."""
         hit = _lookup(tree, ctx) if self.replay else None
         if hit is None:
             ctx.reads = []
@@ -381,7 +385,7 @@ class Runner:
                    dict(islice(ctx.missing.items(), n_missing, None)),
                    dict(islice(ctx.notes.items(), n_notes, None)),
                    frozenset((kind, name) for kind, name, _ in ctx.reads))
-            if self.replay:
+            if self.replay and learn:
                 # a design field that is not toleranced has the same value in every run of
                 # this runner: only the reads that can differ go into the replay tree
                 # nor do reads of what the module published itself (it computes them again);

@@ -98,7 +98,7 @@ def sample_runs(runner: Any, n: int, seed: int = DEFAULT_SEED,
             at = {p: float(v[i]) for p, v in values.items()}
             points.append(at)
             labels.append(point_label(at, runner.units))
-        runs.extend(runner.batch(points, labels))
+        runs.extend(runner.batch(points, labels, learn=False))  # samples never come again
         if step is not None:
             for _ in points:
                 step()
