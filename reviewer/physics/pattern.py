@@ -582,6 +582,15 @@ def bridge_events(kind: Kind, f0: float, *, index: float | None = None,
 # Local averages over the output cycle
 # ============================================================================================
 
+_PWM_LEGS: dict[str, tuple[tuple[float, float], tuple[float, float]]] = {
+    # (gain, offset) of each leg's duty d = clip(gain · M sin θ + offset, 0, 1), legs A and B;
+    # bipolar and unipolar share their local averages (B = 1 − A) and differ in the carrier
+    "spwm_bipolar": ((0.5, 0.5), (-0.5, 0.5)),
+    "spwm_unipolar": ((0.5, 0.5), (-0.5, 0.5)),
+    "spwm_level_shifted": ((1.0, 0.0), (-1.0, 0.0)),
+}
+
+
 def duty(kind: Kind, theta, index=1.0, notch=0.0,
          zero_state: ZeroState = DEFAULT_ZERO_STATE) -> tuple[np.ndarray, np.ndarray]:
     """Local-average high-side on-fraction of legs A and B at output phase ``θ`` [unitless].
@@ -624,15 +633,11 @@ def duty(kind: Kind, theta, index=1.0, notch=0.0,
             da = ((th > a) & (th < np.pi - a)).astype(float)
             db = ((th > np.pi + a) & (th < 2 * np.pi - a)).astype(float)
         return da, db
+    if kind not in _PWM_LEGS:
+        raise ValueError(f"unknown modulation {kind!r}")
     r = m * np.sin(th)
-    if kind == "spwm_bipolar":
-        da = np.clip((1.0 + r) / 2.0, 0.0, 1.0)
-        return da, 1.0 - da
-    if kind == "spwm_unipolar":
-        return np.clip((1.0 + r) / 2.0, 0.0, 1.0), np.clip((1.0 - r) / 2.0, 0.0, 1.0)
-    if kind == "spwm_level_shifted":
-        return np.clip(r, 0.0, 1.0), np.clip(-r, 0.0, 1.0)
-    raise ValueError(f"unknown modulation {kind!r}")
+    (ga, ca), (gb, cb) = _PWM_LEGS[kind]
+    return np.clip(ga * r + ca, 0.0, 1.0), np.clip(gb * r + cb, 0.0, 1.0)
 
 
 # Gauss-Legendre nodes on [-1, 1]: the integrands are smooth between break points
@@ -834,15 +839,34 @@ def hard_switching(kind: Kind, i_peak, phase=0.0, *, index=1.0,
     return HardSwitching(out(np.maximum(*frac)), out(np.abs(i) * np.maximum(*cur)))
 
 
-def narrow_pulse_fraction(kind: Kind, index, f_carrier, t_min, samples: int = 1 << 15):
+def _narrow_one(kind: str, m: float, fc: float, tm: float) -> float:
+    x = tm * fc
+    cuts = {-1.0, 1.0}
+    for g, c in _PWM_LEGS[kind]:
+        a = g * m
+        if a != 0:
+            cuts.update((v - c) / a for v in (0.0, 1.0, x, 1.0 - x))
+    s = np.array(sorted(v for v in cuts if -1.0 <= v <= 1.0))
+    mid = (s[:-1] + s[1:]) / 2
+    short = np.zeros(mid.shape, dtype=bool)
+    for g, c in _PWM_LEGS[kind]:
+        d = g * m * mid + c
+        short |= (d > 0.0) & (d < 1.0) & (np.minimum(d, 1.0 - d) < x)
+    # θ uniform over the cycle: P(sin θ ∈ [s₁, s₂]) = (arcsin s₂ − arcsin s₁)/π
+    return float(np.sum(np.where(short, np.arcsin(s[1:]) - np.arcsin(s[:-1]), 0.0)) / np.pi)
+
+
+def narrow_pulse_fraction(kind: Kind, index, f_carrier, t_min):
     """Share of the output cycle where a leg's gate asks for a pulse shorter than ``t_min``.
 
     Where a leg switches (``0 < d < 1``) it makes an on-pulse ``d/f_c`` and an off-gap
     ``(1 − d)/f_c`` per carrier period; the phase counts when either, for either leg, is
     shorter than ``t_min``. Two-level and unipolar legs (``d = (1 ± M sin θ)/2``) ask for narrow
-    pulses near the reference's peaks when ``M`` nears 1; level-shifted legs (``d = M|sin θ|``)
-    also at every zero crossing. The measure is taken on ``samples`` midpoints of the cycle
-    (resolution ``1/samples``).
+    pulses near the reference's peaks, where ``|sin θ| > (1 − 2·t_min·f_c)/M``: a share
+    ``1 − (2/π)·arcsin((1 − 2·t_min·f_c)/M)``; level-shifted legs (``d = M|sin θ|``) also at
+    every zero crossing, where ``|sin θ| < t_min·f_c/M``. The duties depend on ``θ`` through
+    ``sin θ`` alone, so the share is exact: the break points in ``sin θ`` are solved and each
+    piece weighted by ``(arcsin s₂ − arcsin s₁)/π``.
 
     Parameters
     ----------
@@ -854,8 +878,6 @@ def narrow_pulse_fraction(kind: Kind, index, f_carrier, t_min, samples: int = 1 
         Carrier frequency [Hz].
     t_min : float or numpy.ndarray
         Shortest pulse the controller or the switches can make [s].
-    samples : int
-        Phase points [unitless].
 
     Returns
     -------
@@ -869,14 +891,10 @@ def narrow_pulse_fraction(kind: Kind, index, f_carrier, t_min, samples: int = 1 
     """
     if kind not in PWM_KINDS:
         raise ValueError(f"narrow pulses are counted for sine PWM, not {kind!r}")
-    m, fc, tm = (x[..., None] for x in np.broadcast_arrays(arr(index), arr(f_carrier),
-                                                            arr(t_min)))
-    th = (np.arange(samples) + 0.5) / samples * 2 * np.pi
-    short = np.zeros(np.broadcast(m, th).shape, dtype=bool)
-    for d in duty(kind, th, m):
-        sw = (d > 0.0) & (d < 1.0)
-        short |= sw & (np.minimum(d, 1.0 - d) < tm * fc)
-    return out(np.mean(short, axis=-1))
+    m, fc, tm = np.broadcast_arrays(arr(index), arr(f_carrier), arr(t_min))
+    res = np.array([_narrow_one(kind, float(a), float(b), float(c))
+                    for a, b, c in zip(m.ravel(), fc.ravel(), tm.ravel())]).reshape(m.shape)
+    return out(res)
 
 
 # ============================================================================================
