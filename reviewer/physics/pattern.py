@@ -83,6 +83,9 @@ ZeroState = Literal["low_sides", "phase_shifted"]
 ZERO_STATES: tuple[str, ...] = ("low_sides", "phase_shifted")
 DEFAULT_ZERO_STATE: ZeroState = "low_sides"
 
+ROUNDING = 1e-12
+"""Pulses and gaps shorter than this share of the window are rounding, not pulses [unitless]."""
+
 SWITCHES: tuple[str, ...] = ("a_high", "a_low", "b_high", "b_low")
 """The four switches of the bridge, by leg and position."""
 
@@ -411,6 +414,9 @@ def _commanded_legs(kind: Kind, f0: float, *, index: float | None, carrier: floa
     legs, pulses = [], []
     for s, e in ((aa, ab), (ba, bb)):
         a, b, full = union_periodic(s, e, period)
+        # a clipped reference meets the carrier's end at the period boundary: the pulse or gap
+        # left there is rounding (~1e-19 s), not a pulse
+        a, b, full = drop_short(a, b, full, period, ROUNDING * period)
         if not full and a.size:
             pulses.append(b - a)
             pulses.append(gaps(a, b, period))
