@@ -112,7 +112,13 @@ def derive(ctx: Ctx) -> None:
             dead = max(ctx.q(f"timing.{s}.dead_time") for s in SIDES)
             # sine PWM: the device's diode carries I_pk/π on average over both dead intervals of
             # every carrier period; stepped waves: one dead interval per period at the edge current
-            p_d = tp.body_diode_loss(vf, i_sw if spwm else i_sw / 2, dead, f_sw)
+            # a device's diode carries the dead times of the edges the other device of its leg
+            # hard-switches (the same current for bipolar and unipolar; level-shifted legs load
+            # the low side's diode with the high side's edges)
+            i_fw = (float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
+                                                                side=other), n))
+                    if spwm else i_sw / 2)
+            p_d = tp.body_diode_loss(vf, i_fw, dead, f_sw)
             ctx.publish(f"thermal.{side}.recovery_loss", p_rr,
                         "" if qrr else f"switch.{other}.diode_qrr not given: no recovery loss counted")
             ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)

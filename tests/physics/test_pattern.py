@@ -267,3 +267,7 @@ def test_level_shifted_switching_loss_splits_per_device():
     assert hi * (1 - math.cos(phi)) == pytest.approx(lo * (1 + math.cos(phi)), abs=1e-9)
     assert hi > lo
     assert s.value("thermal.high.switching_loss") > s.value("thermal.low.switching_loss")
+    # the dead times of the high side's hard edges load the low side's diode, and the other way
+    assert s.value("thermal.low.diode_loss") * lo == pytest.approx(
+        s.value("thermal.high.diode_loss") * hi, rel=1e-9, abs=1e-15)
+    assert s.value("thermal.low.diode_loss") > s.value("thermal.high.diode_loss")
