@@ -590,7 +590,8 @@ def _edges(v: Values) -> BridgeEdges:
         notch=v.design("modulation.notch_angle") or 0.0,
         dead_time_high=dead if dh is None else dh, dead_time_low=dead if dl is None else dl,
         current_lag=v.get("waveform.current_lag", 0.0) or 0.0,
-        min_pulse=v.design("modulation.min_pulse") or 0.0)
+        min_pulse=v.design("modulation.min_pulse") or 0.0,
+        zero_state=v.design("modulation.zero_state") or "low_sides")
 
 
 def _slowest_time_constant(l_f: float, c_f: float, dcr: float, r_load: float | None,

@@ -1,10 +1,10 @@
 """The bridge voltage the review's spectrum is made from, as the edges of a piecewise-linear source.
 
-The review's waveform figures (:mod:`reviewer.derive.waveform`) come from the legs' switching
-intervals of :mod:`reviewer.physics.waveform`: the commanded intervals, short pulses dropped,
-edges delayed by the dead time according to the current's direction. This module takes the same
-steps with the same functions and the same inputs, and returns the edges instead of a spectrum,
-so that a circuit simulator can be fed the very waveform the review analysed.
+The review's waveform figures (:mod:`reviewer.derive.waveform`) come from the bridge voltage's
+steps of the switching pattern (:func:`reviewer.physics.pattern.bridge_events`): the commanded
+intervals, short pulses dropped, edges delayed by the dead time according to the current's
+direction. This module takes the very same steps, with the same inputs, and returns the edges
+instead of a spectrum, so that a circuit simulator can be fed the waveform the review analysed.
 """
 
 from __future__ import annotations
@@ -13,7 +13,7 @@ import math
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
-from reviewer.physics import waveform as wf
+from reviewer.physics import pattern
 
 if TYPE_CHECKING:
     import numpy as np
@@ -49,9 +49,11 @@ class BridgeEdges:
 
 def bridge_edges(kind: str, f0: float, *, index: float | None, carrier: float | None,
                  notch: float, dead_time_high: float, dead_time_low: float,
-                 current_lag: float, min_pulse: float) -> BridgeEdges:
+                 current_lag: float, min_pulse: float,
+                 zero_state: str = pattern.DEFAULT_ZERO_STATE) -> BridgeEdges:
     """The edges of the bridge voltage over one window, as :func:`reviewer.physics.waveform.
-    synthesise` builds them before its FFT.
+    synthesise` builds them before its FFT (both from :func:`reviewer.physics.pattern.
+    bridge_events`).
 
     Parameters
     ----------
@@ -71,6 +73,8 @@ def bridge_edges(kind: str, f0: float, *, index: float | None, carrier: float | 
         Lag of the leg A current behind the reference [rad].
     min_pulse : float
         Shortest pulse the controller emits [s].
+    zero_state : {"low_sides", "phase_shifted"}
+        Quasi-square: which switches hold the zero state.
 
     Returns
     -------
@@ -83,28 +87,12 @@ def bridge_edges(kind: str, f0: float, *, index: float | None, carrier: float | 
     """
     import numpy as np
 
-    (aa, ab), (ba, bb), q, fc = wf.leg_intervals(kind, f0, index=index, carrier=carrier,  # type: ignore[arg-type]
-                                                 notch=notch)
-    period = q / f0
-    w0 = 2 * math.pi * f0
-    times, steps, level0 = [], [], 0.0
-    for sign, (s, e) in ((1.0, (aa, ab)), (-1.0, (ba, bb))):
-        a, b, full = wf._union_periodic(s, e, period)
-        a, b, full = wf._drop_short(a, b, full, period, min_pulse)
-
-        def current_sign(t: "np.ndarray", sign: float = sign) -> "np.ndarray":
-            return np.sign(sign * np.cos(w0 * t - current_lag))
-
-        a, b, full = wf._apply_dead_time(a, b, full, period, current_sign,
-                                         dead_time_high, dead_time_low)
-        t, st, l0 = wf._events(a, b, full, period, sign)
-        times.append(t)
-        steps.append(st)
-        level0 += l0
-    t_all = np.concatenate(times)
-    s_all = np.concatenate(steps)
-    order = np.argsort(t_all, kind="stable")
-    t_all, s_all = t_all[order], s_all[order]
+    ev = pattern.bridge_events(kind, f0, index=index, carrier=carrier,  # type: ignore[arg-type]
+                               notch=notch, zero_state=zero_state,  # type: ignore[arg-type]
+                               dead_time_high=dead_time_high, dead_time_low=dead_time_low,
+                               current_lag=current_lag, min_pulse=min_pulse)
+    period, q, fc = ev.period, ev.periods, ev.carrier
+    t_all, s_all, level0 = ev.times, ev.steps, ev.level0
     # edges of the two legs at the same instant are one step of the bridge voltage
     new = np.concatenate([[True], np.diff(t_all) > 1e-12 * period]) if t_all.size else \
         np.zeros(0, dtype=bool)

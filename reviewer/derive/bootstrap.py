@@ -30,6 +30,13 @@ QUANTITIES = declare(
 
 NAMES = [d.pattern for d in QUANTITIES]
 
+ZERO_NOTES = {
+    "low_sides": "quasi-square with the zero state on the low sides: each high side is on for "
+                 "the active interval only",
+    "phase_shifted": "quasi-square with phase-shifted legs: each high side is on for half a "
+                     "period",
+}
+
 
 def derive(ctx: Ctx) -> None:
     if ctx.v("drive.high.kind") != "bootstrap_driver":
@@ -40,11 +47,12 @@ def derive(ctx: Ctx) -> None:
         cap, vcc = ctx.need("bootstrap.capacitor", "bootstrap.supply")
         vf = ctx.v("bootstrap.diode_vf")
         kind = ctx.v("modulation.kind")
+        zero = ctx.v("modulation.zero_state")
         t_on = bp.longest_on_time(kind, ctx.need("output.frequency"),
                                   notch_angle=ctx.v("modulation.notch_angle") or 0.0,
                                   index=ctx.v("modulation.index"),
-                                  f_carrier=ctx.v("modulation.carrier"))
-        ctx.publish("bootstrap.t_on_max", t_on)
+                                  f_carrier=ctx.v("modulation.carrier"), zero_state=zero)
+        ctx.publish("bootstrap.t_on_max", t_on, ZERO_NOTES[zero] if kind == "quasi_square" else "")
 
         spec = ctx.v("switch.high.rds_on_vgs")
         if spec is None:
@@ -84,7 +92,7 @@ def derive(ctx: Ctx) -> None:
         index = ctx.v("modulation.index")
         t_ref = bp.shortest_refresh_time(kind, ctx.need("output.frequency"), dead,
                                          notch_angle=ctx.v("modulation.notch_angle") or 0.0,
-                                         index=index, f_carrier=ctx.v("modulation.carrier"))
+                                         index=index, f_carrier=ctx.v("modulation.carrier"), zero_state=zero)
         ctx.publish("bootstrap.refresh_time", t_ref,
                     "at the highest modulation index" if index is not None
                     else "less the dead time")
@@ -102,7 +110,7 @@ def derive(ctx: Ctx) -> None:
         t_first = bp.shortest_refresh_time(kind, ctx.need("output.frequency"), dead,
                                            notch_angle=ctx.v("modulation.notch_angle") or 0.0,
                                            index=0.0 if index is not None else None,
-                                           f_carrier=ctx.v("modulation.carrier"))
+                                           f_carrier=ctx.v("modulation.carrier"), zero_state=zero)
         v_first = float(bp.refresh_charge(cap, r_ch, t_first, v_start)) / cap - qg / cap
         ctx.publish("bootstrap.first_pulse_vgs", v_first,
                     "one low-side on-time at the start of the first carrier period (zero "

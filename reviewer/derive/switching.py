@@ -17,6 +17,7 @@ import math
 
 from reviewer.derive.gate import levels
 from reviewer.physics import gate as gp
+from reviewer.physics import pattern
 from reviewer.physics import switching as sp
 from reviewer.physics import thermal as tp
 from reviewer.context import SIDES, Ctx, NeedsData, declare
@@ -325,11 +326,12 @@ def derive(ctx: Ctx) -> None:
             ctx.publish("timing.min_pulse", t_min,
                         "the controller's minimum pulse" if t_min == given else
                         "a full turn-on and turn-off of the slower switch")
-            fraction = (sp.narrow_pulse_fraction_leg(m, fc, t_min) if kind == "spwm_bipolar"
-                        else sp.narrow_pulse_fraction_unipolar(m, fc, t_min))
+            # the gate pulses of either leg, from the one switching-pattern description
+            fraction = pattern.narrow_pulse_fraction(kind, m, fc, t_min)
             ctx.publish("timing.narrow_pulse_fraction", fraction,
-                        "leg pulses (two-level)" if kind == "spwm_bipolar"
-                        else "bridge output pulses (three-level), shortest at the zero crossing")
+                        "gate pulses of either leg; level-shifted legs shortest at the zero "
+                        "crossing" if kind == "spwm_level_shifted"
+                        else "gate pulses of either leg, shortest near the reference's peaks")
 
 
 def _hot_rds(ctx: Ctx, side: str) -> float:

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 
+from reviewer.physics import pattern
 from reviewer.physics import thermal as tp
 from reviewer.context import SIDES, Ctx, NeedsData, declare
 from reviewer.units import render
@@ -76,7 +77,9 @@ def derive(ctx: Ctx) -> None:
             alpha = ctx.v("modulation.notch_angle") or 0.0
             index = ctx.v("modulation.index") or 1.0
             n = int(ctx.v(f"{sw}.count"))
-            c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=min(index, 1.0))
+            zero = ctx.v("modulation.zero_state")
+            c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=index,
+                                   zero_state=zero)
             rms = c.high_rms if side == "high" else c.low_rms
             basis = FUNDAMENTAL
             if ctx.has("waveform.bridge_current_rms") and ctx.q("op.load_current_rms") > 0:
@@ -85,7 +88,8 @@ def derive(ctx: Ctx) -> None:
                 rms *= ctx.q("waveform.bridge_current_rms") / ctx.q("op.load_current_rms")
                 basis = HARMONICS
             i_dev = float(tp.device_current(rms, n))
-            i_sw = float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha), n))
+            i_sw = float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha,
+                                                               index=index, side=side), n))
             ctx.publish(f"thermal.{side}.device_rms", i_dev, basis)
             ctx.publish(f"thermal.{side}.device_switched", i_sw, FUNDAMENTAL)
 
@@ -99,13 +103,22 @@ def derive(ctx: Ctx) -> None:
             other = "low" if side == "high" else "high"
             qrr = ctx.v(f"switch.{other}.diode_qrr")
             spwm = kind not in ("square", "quasi_square")
-            # sine PWM: a device turns on against the other's diode only in its own half cycle
-            p_rr = float(tp.recovery_loss(qrr, v, f_sw, 0.5 if spwm else 1.0)) / n if qrr else 0.0
+            # sine PWM: a device turns on against the other's diode only in the carrier periods
+            # it hard-switches (half of them for bipolar and unipolar)
+            share = (float(pattern.hard_switching(kind, i_pk, phi, index=index, side=side).fraction)
+                     if spwm else 1.0)
+            p_rr = float(tp.recovery_loss(qrr, v, f_sw, share)) / n if qrr else 0.0
             p_sw = tp.switching_loss(v, i_sw, t_sum, 0.0, f_sw) + tp.coss_loss(coss, v, f_sw) + p_rr
             dead = max(ctx.q(f"timing.{s}.dead_time") for s in SIDES)
             # sine PWM: the device's diode carries I_pk/π on average over both dead intervals of
             # every carrier period; stepped waves: one dead interval per period at the edge current
-            p_d = tp.body_diode_loss(vf, i_sw if spwm else i_sw / 2, dead, f_sw)
+            # a device's diode carries the dead times of the edges the other device of its leg
+            # hard-switches (the same current for bipolar and unipolar; level-shifted legs load
+            # the low side's diode with the high side's edges)
+            i_fw = (float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
+                                                                side=other), n))
+                    if spwm else i_sw / 2)
+            p_d = tp.body_diode_loss(vf, i_fw, dead, f_sw)
             ctx.publish(f"thermal.{side}.recovery_loss", p_rr,
                         "" if qrr else f"switch.{other}.diode_qrr not given: no recovery loss counted")
             ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)
@@ -161,8 +174,10 @@ def _peak(ctx: Ctx, side: str, kind: str, t_mean: float, power: float, tj_max: f
     period = 1.0 / ctx.need("output.frequency")
     share = 0.5
     if kind == "quasi_square":
-        a = ctx.v("modulation.notch_angle") or 0.0
-        share = (math.pi - 2 * a) / (2 * math.pi) if side == "high" else (math.pi + 2 * a) / (2 * math.pi)
+        # the device's on-share of the period, from the switching pattern
+        on = pattern.on_share(kind, notch=ctx.v("modulation.notch_angle") or 0.0,
+                              zero_state=ctx.v("modulation.zero_state"))
+        share = float(max(on[f"a_{side}"], on[f"b_{side}"]))
     # the whole loss taken as one pulse while the device conducts (conservative: a sinusoid's
     # loss is spread over the half cycle, and a quasi-square low side conducts in two parts)
     swing = float(tp.pulse_temperature_swing(power / share, jc, tau, share * period, period))

@@ -94,9 +94,11 @@ QUANTITIES += declare(
 
 @lru_cache(maxsize=256)
 def spectrum(kind: str, f0: float, index: float | None, carrier: float | None, notch: float,
-             dead_high: float, dead_low: float, lag: float, min_pulse: float) -> wf.Spectrum:
+             dead_high: float, dead_low: float, lag: float, min_pulse: float,
+             zero_state: str = "low_sides") -> wf.Spectrum:
     """The bridge spectrum for a 1 V bus, cached on its inputs (corners repeat them)."""
     return wf.synthesise(kind, 1.0, f0, index=index, carrier=carrier, notch=notch,  # type: ignore[arg-type]
+                         zero_state=zero_state,  # type: ignore[arg-type]
                          dead_time_high=dead_high, dead_time_low=dead_low, current_lag=lag,
                          min_pulse=min_pulse)
 
@@ -228,7 +230,8 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     lag = round(-float(np.angle(yin)), 6)
     ctx.publish("waveform.current_lag", lag)
 
-    spec = spectrum(kind, f0, index, carrier, notch, dh, dl, lag, min_pulse)
+    spec = spectrum(kind, f0, index, carrier, notch, dh, dl, lag, min_pulse,
+                    ctx.v("modulation.zero_state"))
     ctx.publish("waveform.window_periods", float(spec.periods))
     if pwm:
         ctx.publish("waveform.carrier_used", spec.carrier)

@@ -96,6 +96,12 @@ class Modulation(Part):
                   "spwm_level_shifted"] = "square"
     notch_angle: ANGLE | None = Field(None, description="Quasi-square: zero-voltage half-angle "
                                       "each side of the zero crossing.")
+    zero_state: Literal["low_sides", "phase_shifted"] = Field(
+        "low_sides", description="Quasi-square: which switches hold the zero state. "
+        "'low_sides': both low sides on in every zero interval (the high sides conduct for "
+        "π − 2α per cycle; a bootstrap refreshes in every zero interval); 'phase_shifted': "
+        "each leg a square wave, A leading and B lagging by α, the zero state alternating "
+        "between both high sides and both low sides (every switch on for half a cycle).")
     index: RATIO | None = Field(None, description="Sine PWM: modulation index (peak of reference "
                                 "over peak of carrier).")
     carrier: HZ | None = Field(None, description="Sine PWM: carrier (switching) frequency.")

@@ -18,9 +18,13 @@ D. G. Holmes and T. A. Lipo, *Pulse Width Modulation for Power Converters*, 2003
 from __future__ import annotations
 
 import math
-from typing import Literal
-
 import numpy as np
+
+# the on- and refresh times come from the one switching-pattern description
+from reviewer.physics.pattern import longest_on_time, shortest_refresh_time
+
+__all__ = ["bootstrap_charge", "allowed_droop", "minimum_capacitance", "practice_capacitance",
+           "gate_voltage_after", "longest_on_time", "refresh_charge", "shortest_refresh_time"]
 
 
 def _a(x) -> np.ndarray:
@@ -122,47 +126,6 @@ def gate_voltage_after(v_start, capacitance, q_gate, i_dc, t_on, r_load=np.inf):
     return _out(np.where(finite, v_r, v0 - i * t / c))
 
 
-def longest_on_time(modulation: Literal["square", "quasi_square", "spwm_bipolar",
-                                        "spwm_unipolar", "spwm_level_shifted"],
-                    f_out: float, notch_angle: float = 0.0, index: float | None = None,
-                    f_carrier: float | None = None) -> float:
-    """Longest continuous on-time the modulation asks of a high side [s].
-
-    - square: half a period, 1/(2·f_out).
-    - quasi-square with zero interval 2α at each zero crossing, freewheeling on the low sides:
-      half a period minus the notches, (π − 2α)/(2π·f_out).
-    - sine PWM, M ≤ 1: duty (1 + M)/2 at the peak, so (1 + M)/(2·f_c), at most one carrier
-      period; M > 1 (overmodulation): the high side stays on while M·sin θ ≥ 1, for
-      (π − 2·arcsin(1/M))/(2π·f_out), and the pulses either side merge into that run: up to
-      one carrier period at each end, so this returns the core plus two carrier periods (an
-      upper bound: a carrier peak inside the run is where the gate can first be released).
-
-    Parameters
-    ----------
-    modulation : modulation kind
-    f_out : output frequency [Hz]
-    notch_angle : quasi-square half-angle α [rad]
-    index : sine-PWM modulation index [unitless]
-    f_carrier : sine-PWM carrier [Hz]
-
-    References
-    ----------
-    Holmes & Lipo, 2003, ch. 3 (sine-triangle duty cycle (1 + M·sin θ)/2; pulse dropping in
-    overmodulation).
-    """
-    if modulation == "square":
-        return 1.0 / (2.0 * f_out)
-    if modulation == "quasi_square":
-        return (math.pi - 2.0 * notch_angle) / (2.0 * math.pi * f_out)
-    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
-        if index is None or f_carrier is None:
-            raise ValueError("sine PWM needs a modulation index and a carrier frequency")
-        if index <= 1.0:
-            return (1.0 + index) / (2.0 * f_carrier)
-        return (math.pi - 2.0 * math.asin(1.0 / index)) / (2.0 * math.pi * f_out) + 2.0 / f_carrier
-    raise ValueError(f"unknown modulation {modulation!r}")
-
-
 def refresh_charge(capacitance, r_charge, t_refresh, deficit):
     """Charge a refresh interval returns to a capacitor ``deficit`` volts short of full [C].
 
@@ -185,32 +148,3 @@ def refresh_charge(capacitance, r_charge, t_refresh, deficit):
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         frac = np.where(r > 0, -np.expm1(-t / np.where(r > 0, r * c, 1.0)), np.where(t > 0, 1.0, 0.0))
     return _out(c * d * np.maximum(frac, 0.0))
-
-
-def shortest_refresh_time(modulation: Literal["square", "quasi_square", "spwm_bipolar",
-                                              "spwm_unipolar", "spwm_level_shifted"],
-                          f_out, t_dead=0.0, notch_angle=0.0, index=None, f_carrier=None):
-    """Shortest low-side on-time per switching period, the time the capacitor recharges [s].
-
-    - square: half a period less the dead time, 1/(2·f_out) − t_dead;
-    - quasi-square freewheeling on the low sides: (π + 2α)/(2π·f_out) − t_dead;
-    - sine PWM: at the highest index the high side is off for (1 − M)/(2·f_c) per carrier
-      period; at the reference's peak the load current flows out of the leg (for any load angle
-      below 90°), so the switch node sits at the low rail through the low channel or its diode
-      for all of that time, dead times included; zero at and beyond M = 1 (over-modulation
-      drops the low-side pulses: the capacitor is not refreshed there).
-
-    References
-    ----------
-    Holmes & Lipo, 2003, ch. 3 (duty (1 + M·sin θ)/2 of sine-triangle modulation).
-    """
-    if modulation == "square":
-        return _out(np.maximum(0.5 / _a(f_out) - _a(t_dead), 0.0))
-    if modulation == "quasi_square":
-        return _out(np.maximum((np.pi + 2.0 * _a(notch_angle)) / (2.0 * np.pi * _a(f_out))
-                               - _a(t_dead), 0.0))
-    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
-        if index is None or f_carrier is None:
-            raise ValueError("sine PWM needs a modulation index and a carrier frequency")
-        return _out(np.maximum((1.0 - _a(index)) / (2.0 * _a(f_carrier)), 0.0))
-    raise ValueError(f"unknown modulation {modulation!r}")

@@ -38,6 +38,8 @@ from typing import Literal
 
 import numpy as np
 
+from reviewer.physics import pattern
+
 RdsModel = Literal["exponential", "linear"]
 ModulationKind = Literal["square", "quasi_square", "spwm_bipolar", "spwm_unipolar",
                          "spwm_level_shifted"]
@@ -427,14 +429,8 @@ def device_current(i_total, count, sharing_derating=0.2):
 
 # ------------------------------------------------------------------- currents per modulation
 
-def _int_sin(a, b, phi):
-    """∫_a^b sin(θ − φ) dθ."""
-    return math.cos(a - phi) - math.cos(b - phi)
-
-
-def _int_sin2(a, b, phi):
-    """∫_a^b sin²(θ − φ) dθ."""
-    return (b - a) / 2 - (math.sin(2 * (b - phi)) - math.sin(2 * (a - phi))) / 4
+_ZERO_ALIASES = {"low": "low_sides", "alternating": "phase_shifted",
+                 "low_sides": "low_sides", "phase_shifted": "phase_shifted"}
 
 
 @dataclass(frozen=True)
@@ -450,20 +446,25 @@ class SwitchCurrents:
 
 def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
                     notch_angle: float = 0.0, index: float = 1.0,
-                    zero_state: Literal["low", "alternating"] = "low") -> SwitchCurrents:
+                    zero_state: Literal["low_sides", "phase_shifted", "low", "alternating"]
+                    = "low_sides") -> SwitchCurrents:
     """RMS and average channel current per switch for a sinusoidal load current.
 
     Load current i = I_pk·sin(θ − φ), θ the phase of the bridge voltage's fundamental. Each
-    switch carries i² while it is on, so I_rms² = (1/2π)·∫ on(θ)·i² dθ: the load's mean square
-    split by conduction time.
+    switch carries i² while it is on, so I_rms² = (1/2π)·∫ d(θ)·i² dθ with d the switch's
+    local on-fraction from the switching pattern (:func:`reviewer.physics.pattern.conduction`).
 
     - square: each switch on for half the cycle: I_rms = I_pk/2, I_avg = I_pk·cos φ/π.
-    - quasi-square with zero interval 2α at each zero crossing; ``zero_state="low"`` (both low
-      sides on in the zero interval, the usual choice with bootstrap drives): high sides on for
-      (π − 2α) per cycle, low sides for (π + 2α); ``"alternating"`` (phase-shifted legs): every
-      switch on for half the cycle.
-    - sine PWM (bipolar, unipolar, level-shifted), carrier ≫ output: duty (1 ± M·sin θ)/2 for
-      every switch, which gives I_rms = I_pk/2 and I_avg = I_pk·M·cos φ/4.
+    - quasi-square with zero interval 2α at each zero crossing; ``zero_state="low_sides"``
+      (``"low"``; both low sides on in the zero interval, the usual choice with bootstrap
+      drives): high sides on for (π − 2α) per cycle, low sides for (π + 2α);
+      ``"phase_shifted"`` (``"alternating"``): every switch on for half the cycle.
+    - bipolar and unipolar sine PWM: duty (1 ± M·sin θ)/2, which gives I_rms = I_pk/2 and
+      I_avg = I_pk·M·cos φ/4.
+    - level-shifted sine PWM: the high side of leg A is on for M·sin θ in the positive half
+      cycle only and its low side for the rest, so the low sides carry more than the high
+      sides: at M = 1, φ = 0, I_rms,high = I_pk·√(2/(3π)) = 0.461·I_pk and
+      I_rms,low = I_pk·√(1/2 − 2/(3π)) = 0.537·I_pk.
 
     Parameters
     ----------
@@ -471,38 +472,26 @@ def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.
     i_peak : load current amplitude [A]
     phase : load current lag φ [rad]
     notch_angle : quasi-square zero-interval half-angle α [rad]
-    index : sine-PWM modulation index M [unitless] (M ≤ 1)
-    zero_state : quasi-square freewheeling pattern
+    index : sine-PWM modulation index M [unitless] (over-modulation clips the duty)
+    zero_state : quasi-square zero state
 
     References
     ----------
-    Holmes & Lipo, *Pulse Width Modulation for Power Converters*, 2003, ch. 3 (duty-cycle
+    Holmes & Lipo, *Pulse Width Modulation for Power Converters*, 2003, ch. 3 and 5 (duty-cycle
     functions of single-phase modulations); local-average RMS as in Mohan, Undeland & Robbins
     §8-3.
     """
-    i = float(i_peak)
-    phi = float(phase)
-    tau = 2 * math.pi
-    if modulation == "square":
-        modulation, notch_angle, zero_state = "quasi_square", 0.0, "alternating"
-    if modulation == "quasi_square":
-        a = float(notch_angle)
-        if zero_state == "low":
-            s2 = _int_sin2(a, math.pi - a, phi)
-            h_rms = i * math.sqrt(s2 / tau)
-            l_rms = i * math.sqrt((math.pi - s2) / tau)
-            avg = i * abs(_int_sin(a, math.pi - a, phi)) / tau
-            return SwitchCurrents(h_rms, avg, l_rms, avg)
-        if zero_state == "alternating":
-            rms = i / 2
-            avg = i / math.pi * max(abs(math.cos(a - phi)), abs(math.cos(a + phi)))
-            return SwitchCurrents(rms, avg, rms, avg)
-        raise ValueError(f"zero_state must be 'low' or 'alternating', not {zero_state!r}")
-    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
-        rms = i / 2
-        avg = abs(i * float(index) * math.cos(phi) / 4)
-        return SwitchCurrents(rms, avg, rms, avg)
-    raise ValueError(f"unknown modulation {modulation!r}")
+    if modulation not in pattern.KINDS:
+        raise ValueError(f"unknown modulation {modulation!r}")
+    if zero_state not in _ZERO_ALIASES:
+        raise ValueError(f"zero_state must be 'low_sides' or 'phase_shifted', not {zero_state!r}")
+    c = pattern.conduction(modulation, i_peak, phase, index=index, notch=notch_angle,
+                           zero_state=_ZERO_ALIASES[zero_state])  # type: ignore[arg-type]
+    r, m = c.rms, c.mean
+    return SwitchCurrents(float(max(r["a_high"], r["b_high"])),
+                          float(max(abs(m["a_high"]), abs(m["b_high"]))),
+                          float(max(r["a_low"], r["b_low"])),
+                          float(max(abs(m["a_low"]), abs(m["b_low"]))))
 
 
 def stepped_edge_current(i_peak, phase=0.0, notch_angle=0.0):
@@ -550,26 +539,39 @@ def square_edge_current(i_peak, phase=0.0):
 
 
 def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
-                     notch_angle: float = 0.0) -> float:
+                     notch_angle: float = 0.0, *, index: float = 1.0,
+                     side: Literal["high", "low"] = "high") -> float:
     """Mean current one device hard-switches per edge, over the output period [A].
 
-    sine PWM: each device hard-switches only in its own half cycle (the other half it hands the
-    current to, or takes it from, its own body diode: soft), so the mean over every carrier
-    edge of the period is (1/2π)·∫ max(i, 0) dθ = I_pk/π (the whole leg's is 2·I_pk/π), for any
-    load angle; square and quasi-square: the actual current at the edge of the stepped
-    waveform into the R-L load, :func:`stepped_edge_current` (the larger edge, conservative).
+    sine PWM: a device hard-switches only in the carrier periods where its leg switches and
+    the current flows its way (the other transitions hand the current to, or take it from, its
+    own body diode: soft); the mean over every carrier period of the output cycle is
+    :func:`reviewer.physics.pattern.hard_switching`: I_pk/π for bipolar and unipolar (the whole
+    leg's is 2·I_pk/π), I_pk·(1 ± cos φ)/(2π) for the high (+) and low (−) side of a
+    level-shifted bridge. Square and quasi-square: the actual current at the edge of the
+    stepped waveform into the R-L load, :func:`stepped_edge_current` (the larger edge,
+    conservative, for either zero state).
+
+    Parameters
+    ----------
+    modulation : modulation kind
+    i_peak : load current amplitude [A]
+    phase : load current lag φ [rad]
+    notch_angle : quasi-square zero-interval half-angle α [rad]
+    index : sine-PWM modulation index [unitless]
+    side : position of the device
 
     References
     ----------
-    Holmes & Lipo 2003 ch. 3 (edge positions); mean of max(sin, 0) over a cycle is 1/π.
+    Holmes & Lipo 2003 ch. 3 and 5 (edge positions); mean of max(sin, 0) over a cycle is 1/π.
     """
     i, phi, a = float(i_peak), float(phase), float(notch_angle)
     if modulation == "square":
         return float(square_edge_current(i, phi))
     if modulation == "quasi_square":
         return float(stepped_edge_current(i, phi, a))
-    if modulation in ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"):
-        return i / math.pi
+    if modulation in pattern.PWM_KINDS:
+        return float(pattern.hard_switching(modulation, i, phi, index=index, side=side).current)
     raise ValueError(f"unknown modulation {modulation!r}")
 
 

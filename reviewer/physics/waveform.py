@@ -1,7 +1,9 @@
 """The bridge output voltage in time and frequency: synthesis, spectrum, THD, largest harmonics.
 
 The full-bridge voltage ``v_ab = V_bus · (s_a − s_b)`` is built from the two legs' switching
-states ``s_a, s_b ∈ {0, 1}``. Each leg is described exactly by its on-intervals (edge times
+states ``s_a, s_b ∈ {0, 1}``, taken from the one switching-pattern description of
+:mod:`reviewer.physics.pattern` (which also gives the currents per switch, the bootstrap
+on-time and the narrow-pulse share). Each leg is described exactly by its on-intervals (edge times
 solved to machine precision), never by a sampled comparison, so edges do not jitter with the
 sample grid. From the intervals come:
 
@@ -71,17 +73,16 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from fractions import Fraction
 from functools import lru_cache
 from typing import TYPE_CHECKING, Literal
+
+from reviewer.physics.pattern import (KINDS, PWM_KINDS, DEFAULT_ZERO_STATE, Kind, ZeroState,
+                                      bridge_events, leg_intervals)
 
 if TYPE_CHECKING:
     import numpy as np
 
-Kind = Literal["square", "quasi_square", "spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"]
-KINDS: tuple[str, ...] = ("square", "quasi_square", "spwm_bipolar", "spwm_unipolar",
-                          "spwm_level_shifted")
-PWM_KINDS: tuple[str, ...] = ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted")
+__all__ = ["KINDS", "PWM_KINDS", "Kind", "leg_intervals", "Spectrum", "synthesise"]
 
 #: Samples per window for square and quasi-square (harmonics resolved to order 32 767).
 SQUARE_SAMPLES = 1 << 16
@@ -148,237 +149,8 @@ class Spectrum:
 
 
 # --------------------------------------------------------------------------------------------
-# Leg on-intervals
-# --------------------------------------------------------------------------------------------
-
-def _crossings(gain: float, offset: float, index: float, w0: float, tc: float,
-               p: int) -> tuple["np.ndarray", "np.ndarray"]:
-    """Natural-sampling edges of ``ref(t) = gain · M · cos(w0 t) + offset`` against the carrier.
-
-    The leg is on while ``ref > carrier``; in carrier period ``k`` it turns on on the falling
-    slope (``carrier = 1 − 4u``) and off on the rising slope (``carrier = 4u − 3``), with
-    ``u = (t − k·tc) / tc``. Each edge solves ``t = k·tc + tc·(1 ∓ ref(t))/4`` (``ref``
-    clipped to ±1), which has one root per slope while ``π·M·|gain|·f0/(2·f_c) < 1``.
-    """
-    import numpy as np
-
-    t0 = np.arange(p, dtype=float) * tc
-    amp = gain * index
-    q = tc / 4
-
-    def ref(t: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        c = np.cos(w0 * t)
-        r = amp * c + offset
-        inside = np.abs(r) < 1.0
-        slope = np.where(inside, -amp * w0 * np.sin(w0 * t), 0.0)
-        return np.clip(r, -1.0, 1.0), slope
-
-    # Newton's method on g(t) = t − k·tc − tc·(1 ∓ ref(t))/4, whose derivative
-    # 1 ± tc·ref'(t)/4 stays within (0.1, 1.9) by the index check in leg_intervals
-    rise = t0 + q
-    fall = t0 + 3 * q
-    tol = max(1e-13 * tc, 16 * np.finfo(float).eps * p * tc)
-    for _ in range(50):
-        r, dr = ref(rise)
-        step_r = (rise - t0 - q * (1.0 - r)) / (1.0 + q * dr)
-        r, dr = ref(fall)
-        step_f = (fall - t0 - q * (3.0 + r)) / (1.0 - q * dr)
-        rise = rise - step_r
-        fall = fall - step_f
-        if max(np.max(np.abs(step_r)), np.max(np.abs(step_f))) < tol:
-            break
-    return rise, fall
-
-
-def _union_periodic(a: "np.ndarray", b: "np.ndarray",
-                    period: float) -> tuple["np.ndarray", "np.ndarray", bool]:
-    """Union of intervals ``[a, b)`` on a circle of length ``period``.
-
-    Returns sorted starts in ``[0, period)``, their ends (possibly beyond ``period``), and
-    whether the union covers the whole circle.
-    """
-    import numpy as np
-
-    keep = b > a
-    a, b = a[keep], b[keep]
-    if a.size == 0:
-        return a, b, False
-    if np.max(b - a) >= period:
-        return a[:0], b[:0], True
-    shift = np.floor(a / period) * period
-    a, b = a - shift, b - shift
-    order = np.argsort(a, kind="stable")
-    a, b = a[order], b[order]
-    reach = np.maximum.accumulate(b)
-    start = np.ones(a.size, dtype=bool)
-    start[1:] = a[1:] > reach[:-1]
-    idx = np.flatnonzero(start)
-    ua = a[idx]
-    ub = np.append(reach[idx[1:] - 1], reach[-1])
-    # the last interval may reach past the period into the first ones
-    while ua.size > 1 and ub[-1] >= ua[0] + period:
-        ub[-1] = max(ub[-1], ub[0] + period)
-        ua, ub = ua[1:], ub[1:]
-        # the merged last interval now starts where it did; re-sort is unnecessary
-    if ua.size == 1 and ub[0] - ua[0] >= period:
-        return ua[:0], ub[:0], True
-    if ua.size and ub[-1] - ua[-1] >= period:
-        return ua[:0], ub[:0], True
-    return ua, ub, False
-
-
-def _gaps(a: "np.ndarray", b: "np.ndarray", period: float) -> "np.ndarray":
-    """Off-gap lengths between consecutive sorted intervals on the circle [s]."""
-    import numpy as np
-
-    if a.size == 0:
-        return a
-    nxt = np.append(a[1:], a[0] + period)
-    return nxt - b
-
-
-def _drop_short(a: "np.ndarray", b: "np.ndarray", full: bool, period: float,
-                min_pulse: float) -> tuple["np.ndarray", "np.ndarray", bool]:
-    """Remove on-pulses shorter than ``min_pulse`` and fill off-gaps shorter than it."""
-    import numpy as np
-
-    if full or a.size == 0 or min_pulse <= 0:
-        return a, b, full
-    keep = (b - a) >= min_pulse
-    a, b = a[keep], b[keep]
-    if a.size == 0:
-        return a, b, False
-    g = _gaps(a, b, period)
-    short = g < min_pulse
-    b = np.where(short, np.append(a[1:], a[0] + period), b)
-    return _union_periodic(a, b, period)
-
-
-def _apply_dead_time(a: "np.ndarray", b: "np.ndarray", full: bool, period: float,
-                     current_sign_at, dead_high: float, dead_low: float,
-                     ) -> tuple["np.ndarray", "np.ndarray", bool]:
-    """Delay the edges of a leg by the dead time according to the leg current's sign."""
-    import numpy as np
-
-    if full or a.size == 0 or (dead_high <= 0 and dead_low <= 0):
-        return a, b, full
-    sa = current_sign_at(a)
-    sb = current_sign_at(b)
-    a2 = a + np.where(sa > 0, dead_high, 0.0)
-    b2 = b + np.where(sb < 0, dead_low, 0.0)
-    return _union_periodic(a2, b2, period)
-
-
-def leg_intervals(kind: Kind, f0: float, *, index: float | None = None,
-                  carrier: float | None = None, notch: float = 0.0,
-                  disposition: Literal["pd", "pod"] = "pd", max_periods: int = 8,
-                  ) -> tuple[tuple["np.ndarray", "np.ndarray"], tuple["np.ndarray", "np.ndarray"],
-                             int, float | None]:
-    """Commanded on-intervals of legs A and B over the synthesis window.
-
-    Parameters
-    ----------
-    kind : str
-        Modulation: ``square``, ``quasi_square``, ``spwm_bipolar`` (two-level),
-        ``spwm_unipolar`` (three-level, both legs against one carrier with opposite
-        references) or ``spwm_level_shifted`` (three-level, two carriers stacked in
-        ``[0, 1]`` and ``[−1, 0]``; leg A follows the upper one, leg B the lower one).
-    f0 : float
-        Output frequency [Hz].
-    index : float, optional
-        Modulation index ``M`` (reference peak over carrier peak) [unitless], PWM only.
-    carrier : float, optional
-        Carrier frequency [Hz], PWM only.
-    notch : float
-        Quasi-square zero-voltage half-angle ``α`` each side of the zero crossing [rad].
-    disposition : {"pd", "pod"}
-        Level-shifted carriers in phase (``pd``) or in phase opposition (``pod``) [unitless].
-    max_periods : int
-        Largest number of output periods in the window [unitless].
-
-    Returns
-    -------
-    tuple
-        ``((a_start, a_end), (b_start, b_end), periods, carrier_used)``: interval starts and
-        ends [s] (ends may pass the window end and wrap), the output periods in the window
-        [unitless] and the carrier synthesised [Hz] (``None`` without a carrier).
-
-    References
-    ----------
-    Holmes & Lipo (2003), ch. 3 and 5; Mohan, Undeland & Robbins (2003), ch. 8.
-    """
-    import numpy as np
-
-    if f0 <= 0:
-        raise ValueError("output frequency must be positive")
-    t0 = 1.0 / f0
-    if kind == "square":
-        return ((np.array([-t0 / 4]), np.array([t0 / 4])),
-                (np.array([t0 / 4]), np.array([3 * t0 / 4])), 1, None)
-    if kind == "quasi_square":
-        if not 0.0 <= notch < math.pi / 2:
-            raise ValueError("notch half-angle must lie in [0, π/2)")
-        s = notch / (2 * math.pi * f0)
-        # phase-shifted legs: A leads a square wave by α, B lags its complement by α
-        return ((np.array([-t0 / 4 + s]), np.array([t0 / 4 + s])),
-                (np.array([t0 / 4 - s]), np.array([3 * t0 / 4 - s])), 1, None)
-    if kind not in PWM_KINDS:
-        raise ValueError(f"unknown modulation kind {kind!r}")
-    if index is None or carrier is None:
-        raise ValueError("sine PWM needs a modulation index and a carrier frequency")
-    if index < 0:
-        raise ValueError("modulation index must not be negative")
-    ratio = carrier / f0
-    if ratio < 5:
-        raise ValueError("carrier must be at least five times the output frequency for sine PWM")
-    gain_max = 2.0 if kind == "spwm_level_shifted" else 1.0
-    if math.pi * index * gain_max / (2 * ratio) >= 0.9:
-        raise ValueError("modulation index too large for this carrier ratio")
-    frac = Fraction(ratio).limit_denominator(max_periods)
-    p, q = frac.numerator, frac.denominator
-    fc = p / q * f0
-    tc = 1.0 / fc
-    w0 = 2 * math.pi * f0
-    if kind == "spwm_bipolar":
-        ra, fa = _crossings(1.0, 0.0, index, w0, tc, p)
-        a = (ra, fa)
-        b = (fa, np.append(ra[1:], ra[0] + p * tc))
-    elif kind == "spwm_unipolar":
-        a = _crossings(1.0, 0.0, index, w0, tc, p)
-        b = _crossings(-1.0, 0.0, index, w0, tc, p)
-    else:
-        # upper carrier (c+1)/2: A on while r > (c+1)/2  <=>  2r − 1 > c
-        a = _crossings(2.0, -1.0, index, w0, tc, p)
-        if disposition == "pd":
-            # lower carrier (c−1)/2: B on while r < (c−1)/2  <=>  not (2r + 1 > c)
-            rb, fb = _crossings(2.0, 1.0, index, w0, tc, p)
-            b = (fb, np.append(rb[1:], rb[0] + p * tc))
-        elif disposition == "pod":
-            # lower carrier (−c−1)/2: B on while r < (−c−1)/2  <=>  −2r − 1 > c
-            b = _crossings(-2.0, -1.0, index, w0, tc, p)
-        else:
-            raise ValueError(f"unknown carrier disposition {disposition!r}")
-    return a, b, q, fc
-
-
-# --------------------------------------------------------------------------------------------
 # Spectrum
 # --------------------------------------------------------------------------------------------
-
-def _events(a: "np.ndarray", b: "np.ndarray", full: bool, period: float,
-            weight: float) -> tuple["np.ndarray", "np.ndarray", float]:
-    """Edge times in ``[0, period)``, their level steps and the level just before ``t = 0``."""
-    import numpy as np
-
-    if full:
-        return np.empty(0), np.empty(0), weight
-    am = np.mod(a, period)
-    bm = np.mod(b, period)
-    level0 = weight * float(np.count_nonzero(am > bm))
-    times = np.concatenate([am, bm])
-    steps = np.concatenate([np.full(am.size, weight), np.full(bm.size, -weight)])
-    return times, steps, level0
-
 
 def sample_count(kind: Kind, carrier_periods: int) -> int:
     """Samples per window: a power of two resolving 32 carrier groups [unitless].
@@ -427,6 +199,7 @@ def _kernel_correction(n: int) -> "np.ndarray":
 
 def synthesise(kind: Kind, v_bus: float, f0: float, *, index: float | None = None,
                carrier: float | None = None, notch: float = 0.0,
+               zero_state: ZeroState = DEFAULT_ZERO_STATE,
                dead_time_high: float = 0.0, dead_time_low: float = 0.0,
                current_lag: float = 0.0, min_pulse: float = 0.0,
                disposition: Literal["pd", "pod"] = "pd", max_periods: int = 8,
@@ -447,6 +220,9 @@ def synthesise(kind: Kind, v_bus: float, f0: float, *, index: float | None = Non
         Carrier frequency [Hz] (sine PWM).
     notch : float
         Quasi-square notch half-angle [rad].
+    zero_state : {"low_sides", "phase_shifted"}
+        Quasi-square: which switches hold the zero state (the voltage is the same; the dead
+        time acts at different edges), see :mod:`reviewer.physics.pattern`.
     dead_time_high : float
         Dead time before a high-side switch turns on [s].
     dead_time_low : float
@@ -474,35 +250,12 @@ def synthesise(kind: Kind, v_bus: float, f0: float, *, index: float | None = Non
     """
     import numpy as np
 
-    (aa, ab), (ba, bb), q, fc = leg_intervals(kind, f0, index=index, carrier=carrier,
-                                              notch=notch, disposition=disposition,
-                                              max_periods=max_periods)
-    period = q / f0
-    w0 = 2 * math.pi * f0
-    legs = []
-    pulses = []
-    for sign, (s, e) in ((1.0, (aa, ab)), (-1.0, (ba, bb))):
-        a, b, full = _union_periodic(s, e, period)
-        if not full and a.size:
-            pulses.append(b - a)
-            pulses.append(_gaps(a, b, period))
-        a, b, full = _drop_short(a, b, full, period, min_pulse)
-
-        def current_sign(t: np.ndarray, sign: float = sign) -> np.ndarray:
-            return np.sign(sign * np.cos(w0 * t - current_lag))
-
-        a, b, full = _apply_dead_time(a, b, full, period, current_sign,
-                                      dead_time_high, dead_time_low)
-        legs.append((a, b, full))
-
-    times_list, steps_list, level0 = [], [], 0.0
-    for weight, (a, b, full) in zip((1.0, -1.0), legs):
-        t, s, l0 = _events(a, b, full, period, weight)
-        times_list.append(t)
-        steps_list.append(s)
-        level0 += l0
-    times = np.concatenate(times_list)
-    steps = np.concatenate(steps_list)
+    ev = bridge_events(kind, f0, index=index, carrier=carrier, notch=notch,
+                       zero_state=zero_state, dead_time_high=dead_time_high,
+                       dead_time_low=dead_time_low, current_lag=current_lag,
+                       min_pulse=min_pulse, disposition=disposition, max_periods=max_periods)
+    q, fc, period = ev.periods, ev.carrier, ev.period
+    times, steps, level0 = ev.times, ev.steps, ev.level0
 
     # exact RMS and mean of the piecewise-constant waveform
     order = np.argsort(times, kind="stable")
@@ -530,7 +283,7 @@ def synthesise(kind: Kind, v_bus: float, f0: float, *, index: float | None = Non
     k = np.arange(n // 2)
     amp = v_bus * spec
     freq = k * (f0 / q)
-    widths = np.concatenate(pulses) if pulses else np.empty(0)
+    widths = ev.pulses
     return Spectrum(f0=f0, periods=q, carrier=fc, v_bus=v_bus, freq=freq, amp=amp,
                     v_rms=abs(v_bus) * math.sqrt(max(ms, 0.0)), v_dc=v_bus * mean,
                     pulses=widths)
