@@ -329,6 +329,10 @@ class Runner:
                 out[name] = col[0]
             elif all(_is_number(x) for x in col):
                 out[name] = np.array(col, dtype=float)
+            elif all(isinstance(x, bool) for x in col) or all(isinstance(x, str) for x in col):
+                # a flag or text that differs between the points: an array of them (a module
+                # that branches on it raises on the array and falls back to scalar runs)
+                out[name] = np.array(col)
             else:
                 return False
         if any(c.missing != first.missing for c in ctxs):
@@ -347,6 +351,8 @@ class Runner:
         new = {k: v for k, v in actx.out.items() if k not in before}
         got = frozenset((kind, name) for kind, name, _ in actx.reads)
         self.read_fields.update(name for kind, name in got if kind == "v")
+        # taken before the loop: the loop adds them to ``first.missing`` (point 0) too
+        new_missing = {k: v for k, v in actx.missing.items() if k not in first.missing}
         for i, c in enumerate(ctxs):
             for k, v in new.items():
                 if isinstance(v, np.ndarray) and v.shape == (n,):
@@ -356,7 +362,7 @@ class Runner:
                 else:
                     x = v
                 c.out[k] = x
-            c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
+            c.missing.update(new_missing)
             c.notes.update({k: _element(v, i, n) for k, v in actx.notes.items()})
             reads[i].append(got)
         return True
