@@ -13,14 +13,18 @@ the delay and the plateau interval grow.
 
 from __future__ import annotations
 
-import math
+import numpy as np
 
 from reviewer.derive.gate import levels
 from reviewer.physics import gate as gp
 from reviewer.physics import switching as sp
 from reviewer.physics import thermal as tp
+from reviewer.physics.arrays import is_array, out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
 from reviewer.units import render
+
+VECTOR = True
+"""Evaluated over arrays (one element per point) by :meth:`reviewer.quantities.Runner.batch`."""
 
 OTHER = {"high": "low", "low": "high"}
 SPWM = ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted")
@@ -91,18 +95,61 @@ def _n_eff(ctx: Ctx, side: str) -> tuple[int, bool]:
     return n, bool(ctx.v(f"switch.{side}.own_gate_resistor")) and n > 1
 
 
+def _all(mask, what: str) -> bool:
+    """Whether ``mask`` holds, for a float or at every point of an array call.
+
+    A test whose outcome decides what is published (a quantity or needs data) cannot differ
+    between the points of one array call: where it does, raise ValueError, which makes the
+    runner evaluate this module point by point (correct, only slower)."""
+    m = np.asarray(mask, dtype=bool)
+    if m.all():
+        return True
+    if m.any():
+        raise ValueError(f"{what} differs between the points: evaluate them one by one")
+    return False
+
+
+def _each(fn, *xs):
+    """``fn`` of floats, or in an array call the list of ``fn`` at each point (for texts)."""
+    if not is_array(*xs):
+        return fn(*xs)
+    n = max(np.size(x) for x in xs if isinstance(x, np.ndarray))
+    return [fn(*(float(x[i]) if isinstance(x, np.ndarray) and x.ndim else x for x in xs))
+            for i in range(n)]
+
+
+def _note(note):
+    """A note from :func:`_each`: a list of texts only where every point has one (a point with
+    none would publish no note there, which one array call cannot say)."""
+    if not isinstance(note, list):
+        return note
+    if all(note):
+        return note
+    if any(note):
+        raise ValueError("a note is given at some points only: evaluate them one by one")
+    return ""
+
+
+def _text(value):
+    """A text value from :func:`_each`: one text, or a numpy array of them (one per point)."""
+    return np.array(value) if isinstance(value, list) else value
+
+
 def plateau(ctx: Ctx, side: str, vth: float) -> float:
     given = ctx.v(f"switch.{side}.v_plateau")
     if given is not None:
         return given
     gfs = ctx.need(f"switch.{side}.gfs")
     n, _ = _n_eff(ctx, side)
-    i_d = float(tp.device_current(ctx.q("op.load_current_peak"), n))
+    i_d = out(tp.device_current(ctx.q("op.load_current_peak"), n))
     return gp.miller_plateau(vth, i_d, gfs)
 
 
-def _times(ctx: Ctx, side: str, v_max: float, r_int1: float) -> dict:
-    """Every interval of ``side`` with internal gate resistance ``r_int1`` per device [Ω]."""
+def _times(ctx: Ctx, side: str, v_max: float, r_int1: float, slow: bool = True) -> dict:
+    """Every interval of ``side`` with internal gate resistance ``r_int1`` per device [Ω].
+
+    ``slow`` False leaves out what only the slow set is used for (the turn-off at the current
+    that makes it longest, its charge and time per ohm): the edge-speed set needs none of it."""
     sw, dr = f"switch.{side}", f"drive.{side}"
     ciss1, qgd1, vth = ctx.need(f"{sw}.ciss", f"{sw}.qgd", f"{sw}.vth")
     n, own = _n_eff(ctx, side)
@@ -124,40 +171,54 @@ def _times(ctx: Ctx, side: str, v_max: float, r_int1: float) -> dict:
 
     if r_src is None and i_src is None:
         raise NeedsData(f"{dr}.source_current", f"{dr}.r_source")
-    r_on = r_src + rg + r_int if r_src is not None else (rg + r_int if rg + r_int > 0 else None)
+    # a stage given by its current limit alone has loop resistance only where R_g + R_int > 0
+    r_on = r_src + rg + r_int if r_src is not None else (
+        rg + r_int if _all(rg + r_int > 0, "a resistive turn-on loop") else None)
     pull_only = r_snk is None and i_snk is None
     if pull_only:
         if pull is None:
             raise NeedsData(f"{dr}.sink_current", f"{dr}.r_sink", f"{dr}.pull_resistor")
         r_off, r_fixed, i_off = pull + r_int, r_int, None
     else:
-        r_fixed = (r_snk or 0.0) + r_int
+        r_fixed = (0.0 if r_snk is None else r_snk) + r_int
         r_off = r_snk + rg_off + r_int if r_snk is not None else (
-            rg_off + r_int if rg_off + r_int > 0 else None)
+            rg_off + r_int if _all(rg_off + r_int > 0, "a resistive turn-off loop") else None)
         i_off = i_snk
     kw = dict(r_on=r_on, r_off=r_off, i_source=i_src, i_sink=i_off, v_off=v_off, c_above=c_hi)
     t = sp.switching_times(c_lo, qgd, v_on, vth, vp, **kw)
-    # at low load current the plateau nears the threshold: longer delay and plateau interval
-    vp_low = min(vp, vth) if vth > v_off else vp
-    t_low = sp.switching_times(c_lo, qgd, v_on, vth, vp_low, **kw)
-    slow_vp = vp_low if t_low.turn_off_to_cutoff > t.turn_off_to_cutoff else vp
     if r_off is not None:
         hold = r_off
     else:
         # a current-rated stage holds the gate through about V_drive / I_peak (estimate)
         hold = rg_off + r_int + abs(v_on - v_off) / i_snk
-    return {
+    found = {
         "v_drive": v_on, "v_off": v_off, "v_plateau": vp, "td_on": t.td_on,
         "current_rise_gc": t.t_ri, "rise_time": t.tr,
         "td_off": t.td_off, "fall_time": t.tf, "tail": t.tail, "turn_on_time": t.turn_on,
-        "turn_off_time": max(t.turn_off_to_cutoff, t_low.turn_off_to_cutoff),
         "pull_only": pull_only,
-        "off_seconds_per_ohm": sp.turn_off_seconds_per_ohm(c_lo, qgd, v_on, slow_vp, vth, v_off),
-        "off_charge": c_lo * max(v_on - slow_vp, 0.0) + qgd + c_lo * max(slow_vp - vth, 0.0),
         "off_r_fixed": r_fixed, "hold_resistance": hold, "rg_internal_used": r_int1,
         "_cgd": ctx.v(f"{sw}.crss"), "_ciss1": ciss1, "_n": n, "_vth": vth,
         "_r_on": r_on, "_r_off": r_off, "_c_lo": c_lo,
     }
+    if not slow:
+        return found
+    # at low load current the plateau nears the threshold: longer delay and plateau interval
+    off = t.turn_off_to_cutoff
+    vp_low = out(np.where(vth > v_off, np.minimum(vp, vth), vp))
+    if not is_array(vp_low) and vp_low == vp:
+        off_low = off  # the same plateau: the same turn-off, not computed twice
+    else:
+        td_off, tf, tail = sp.turn_off_intervals(c_lo, qgd, v_on, vth, vp_low, r_off=r_off,
+                                                 i_sink=i_off, v_off=v_off, c_above=c_hi)
+        off_low = td_off + tf + tail
+    slow_vp = out(np.where(off_low > off, vp_low, vp))
+    found.update({
+        "turn_off_time": out(np.maximum(off, off_low)),
+        "off_seconds_per_ohm": sp.turn_off_seconds_per_ohm(c_lo, qgd, v_on, slow_vp, vth, v_off),
+        "off_charge": out(c_lo * np.maximum(v_on - slow_vp, 0.0) + qgd
+                          + c_lo * np.maximum(slow_vp - vth, 0.0)),
+    })
+    return found
 
 
 def _switch(ctx: Ctx, side: str, v_max: float) -> tuple[dict, dict]:
@@ -167,7 +228,7 @@ def _switch(ctx: Ctx, side: str, v_max: float) -> tuple[dict, dict]:
         t = _times(ctx, side, v_max, given)
         return t, t
     return (_times(ctx, side, v_max, RG_INTERNAL_SLOW),
-            _times(ctx, side, v_max, RG_INTERNAL_FAST))
+            _times(ctx, side, v_max, RG_INTERNAL_FAST, slow=False))
 
 
 def _gfs(ctx: Ctx, side: str, fast: dict, i_dev: float) -> float:
@@ -175,7 +236,7 @@ def _gfs(ctx: Ctx, side: str, fast: dict, i_dev: float) -> float:
     if gfs is not None:
         return gfs
     head = fast["v_plateau"] - fast["_vth"]
-    if head <= 0 or i_dev <= 0:
+    if not _all(~((head <= 0) | (np.asarray(i_dev) <= 0)), "a plateau above threshold"):
         raise NeedsData(f"switch.{side}.gfs")
     return i_dev / head  # the given plateau sits at I/g_fs above threshold
 
@@ -185,16 +246,18 @@ def _current_edges(ctx: Ctx, side: str, fast: dict) -> None:
     sw = f"switch.{side}"
     with ctx.section(f"switching.{side}.current_rise", f"switching.{side}.current_fall"):
         n = fast["_n"]
-        i_dev = float(tp.device_current(ctx.q("op.load_current_peak"), n))
+        i_dev = out(tp.device_current(ctx.q("op.load_current_peak"), n))
         l_s = ctx.v(f"{sw}.common_source_inductance")
         if l_s is None:
             ctx.publish(f"switching.{side}.current_rise", fast["current_rise_gc"],
                         "gate-charge estimate, no common-source inductance given (a lower bound)")
         else:
             g = _gfs(ctx, side, fast, i_dev)
+            r_on = 0.0 if fast["_r_on"] is None else fast["_r_on"]
             t_ls = sp.current_edge_time(i_dev, fast["v_drive"] - fast["v_plateau"], l_s,
-                                        fast["_r_on"] or 0.0, fast["_c_lo"] / n, g)
-            ctx.publish(f"switching.{side}.current_rise", max(t_ls, fast["current_rise_gc"]),
+                                        r_on, fast["_c_lo"] / n, g)
+            ctx.publish(f"switching.{side}.current_rise",
+                        out(np.maximum(t_ls, fast["current_rise_gc"])),
                         "bounded by the common-source inductance")
         t_f = ctx.v(f"{sw}.current_fall_time")
         if t_f is not None:
@@ -204,7 +267,7 @@ def _current_edges(ctx: Ctx, side: str, fast: dict) -> None:
             r_off = fast["_r_off"] if fast["_r_off"] is not None else fast["hold_resistance"]
             t_ls = sp.current_edge_time(i_dev, fast["v_plateau"] - fast["v_off"], l_s, r_off,
                                         fast["_c_lo"] / n, g)
-            ctx.publish(f"switching.{side}.current_fall", max(t_ls, fast["tail"]),
+            ctx.publish(f"switching.{side}.current_fall", out(np.maximum(t_ls, fast["tail"])),
                         "gate-charge current fall bounded by the common-source inductance")
         else:
             # the gate-charge tail alone is no usable bound for a fast part (it gives hundreds of
@@ -223,12 +286,15 @@ def _dead_time(ctx: Ctx, side: str) -> tuple[float, float, str]:
     if t is None:
         t = ctx.need("timing.dead_time")
     mism, spread, res = (ctx.v(f"timing.{k}") for k in ("delay_mismatch", "delay_spread", "resolution"))
-    eff = sp.effective_dead_time(t, mism or 0.0, spread or 0.0, res or 0.0)
+    eff = sp.effective_dead_time(t, *(0.0 if x is None else x for x in (mism, spread, res)))
     loss = t - eff
-    parts = [w for w, x in (("driver delay mismatch", mism), ("delay spread", spread),
-                            ("controller resolution", res)) if x]
-    note = f"set {render(t, 's')}, less {' and '.join(parts)}" if parts else ""
-    return eff, loss, note
+
+    def say(t, mism, spread, res):
+        parts = [w for w, x in (("driver delay mismatch", mism), ("delay spread", spread),
+                                ("controller resolution", res)) if x]
+        return f"set {render(t, 's')}, less {' and '.join(parts)}" if parts else ""
+
+    return eff, loss, _note(_each(say, t, mism, spread, res))
 
 
 def derive(ctx: Ctx) -> None:
@@ -264,7 +330,7 @@ def derive(ctx: Ctx) -> None:
             cgd = ctx.need(f"switch.{side}.crss")
             # the other switch's fastest voltage fall sets the slew this switch's gate sees
             dvdt = sp.node_slew_rate(v_max, fast[other]["rise_time"])
-            cgs = max(me["_ciss1"] - cgd, 0.0)
+            cgs = out(np.maximum(me["_ciss1"] - cgd, 0.0))
             n = me["_n"]
             induced = sp.induced_gate_voltage(cgd * n, cgs * n, me["hold_resistance"], dvdt, v_max)
             ctx.publish(f"switching.{side}.dvdt", dvdt)
@@ -286,7 +352,7 @@ def derive(ctx: Ctx) -> None:
             t_off, td_on = sw[other]["turn_off_time"], fast[side]["td_on"]
             ctx.publish(f"timing.{side}.outgoing_turn_off", t_off)
             ctx.publish(f"timing.{side}.incoming_delay", td_on)
-            ctx.publish(f"timing.{side}.needed", max(t_off - td_on, 0.0))
+            ctx.publish(f"timing.{side}.needed", out(np.maximum(t_off - td_on, 0.0)))
             overlap = sp.shoot_through_overlap(dead, t_off, td_on)
             ctx.publish(f"timing.{side}.overlap", overlap)
             ctx.publish(f"timing.{side}.outgoing_pull_only", sw[other]["pull_only"])
@@ -295,7 +361,8 @@ def derive(ctx: Ctx) -> None:
             ctx.publish(f"timing.{side}.outgoing_charge", sw[other]["off_charge"])
             pull = ctx.v(f"drive.{other}.pull_resistor")
             if sw[other]["pull_only"]:
-                path = f"through its {render(pull, 'Ω')} pull resistor, its only turn-off path"
+                path = _text(_each(lambda r: f"through its {render(r, 'Ω')} pull resistor, its "
+                                   "only turn-off path", pull))
             else:
                 path = "through its gate drive"
             ctx.publish(f"timing.{side}.outgoing_path", path)
@@ -309,22 +376,23 @@ def derive(ctx: Ctx) -> None:
                         "both channels fully on at T_j,max, no loop inductance: an upper bound")
 
     with ctx.section("timing.dead_time_fraction"):
-        dead = max(_dead_time(ctx, s)[0] for s in SIDES)
+        dead = out(np.maximum(*(_dead_time(ctx, s)[0] for s in SIDES)))
         ctx.publish("timing.dead_time_fraction", sp.dead_time_fraction(dead, ctx.q("op.switching_frequency")))
 
     kind = ctx.v("modulation.kind")
     if kind in SPWM:
         with ctx.section("timing.min_pulse", "timing.narrow_pulse_fraction"):
             m, fc = ctx.need("modulation.index", "modulation.carrier")
-            given = ctx.v("modulation.min_pulse") or 0.0
+            given = ctx.v("modulation.min_pulse")
+            given = 0.0 if given is None else given
             if not all(s in sw for s in SIDES):
                 raise NeedsData(*ctx.missing.get("switching.high.td_on", ()),
                                 *ctx.missing.get("switching.low.td_on", ()))
-            full = max(s["turn_on_time"] + s["turn_off_time"] for s in sw.values())
-            t_min = max(given, full) if math.isfinite(full) else given
-            ctx.publish("timing.min_pulse", t_min,
-                        "the controller's minimum pulse" if t_min == given else
-                        "a full turn-on and turn-off of the slower switch")
+            full = out(np.maximum(*(s["turn_on_time"] + s["turn_off_time"] for s in sw.values())))
+            t_min = out(np.where(np.isfinite(full), np.maximum(given, full), given))
+            ctx.publish("timing.min_pulse", t_min, _note(_each(
+                lambda t, g: "the controller's minimum pulse" if t == g else
+                "a full turn-on and turn-off of the slower switch", t_min, given)))
             fraction = (sp.narrow_pulse_fraction_leg(m, fc, t_min) if kind == "spwm_bipolar"
                         else sp.narrow_pulse_fraction_unipolar(m, fc, t_min))
             ctx.publish("timing.narrow_pulse_fraction", fraction,
@@ -338,4 +406,4 @@ def _hot_rds(ctx: Ctx, side: str) -> float:
     rds = ctx.need(f"{sw}.rds_on")
     r = tp.rds_on_at(ctx.v(f"{sw}.tj_max"), rds, ctx.v(f"{sw}.rds_on_temp"),
                      ctx.v(f"{sw}.rds_hot_factor"), ctx.v(f"{sw}.rds_hot_temp"))
-    return float(r) / int(ctx.v(f"{sw}.count"))
+    return out(r) / int(ctx.v(f"{sw}.count"))

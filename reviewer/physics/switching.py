@@ -439,14 +439,48 @@ def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None
         raise ValueError("turn-on needs a loop resistance or a source current")
     if r_off is None and i_sink is None:
         raise ValueError("turn-off needs a loop resistance or a sink current")
-    c_hi = ciss if c_above is None else c_above
     td_on = stage_time(ciss, v_off, v_drive, vth, r_on, i_source)
     t_ri = stage_time(ciss, vth, v_drive, v_plateau, r_on, i_source)
     tr = plateau_time(qgd, _a(v_drive) - _a(v_plateau), r_on, i_source)
+    td_off, tf, tail = turn_off_intervals(ciss, qgd, v_drive, vth, v_plateau, r_off=r_off,
+                                          i_sink=i_sink, v_off=v_off, c_above=c_above)
+    return SwitchingTimes(td_on, tr, td_off, tf, tail, t_ri)
+
+
+def turn_off_intervals(ciss, qgd, v_drive, vth, v_plateau, *, r_off=None, i_sink=None,
+                       v_off=0.0, c_above=None):
+    """The three turn-off intervals (t_d(off), t_rv, t_fi) of a switch [s].
+
+    The turn-off half of :func:`switching_times`, for a caller that needs only the turn-off
+    (the turn-off at another plateau, say): the same formulas, the same numbers.
+
+    Parameters
+    ----------
+    ciss : input capacitance below the plateau (C_iss, or Q_gs/V_pl) [F]
+    qgd : gate-drain charge [C]
+    v_drive : on-level the gate starts from [V]
+    vth : threshold magnitude [V]
+    v_plateau : Miller plateau [V]
+    r_off : gate loop resistance turning off [Ω]
+    i_sink : stage current limit turning off [A]
+    v_off : off-level [V]
+    c_above : input capacitance above the plateau [F]; None: ``ciss``
+
+    Returns
+    -------
+    (td_off, tf, tail) [s]; their sum is :attr:`SwitchingTimes.turn_off_to_cutoff`.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §22-4; Baliga 2008 §6.10.
+    """
+    if r_off is None and i_sink is None:
+        raise ValueError("turn-off needs a loop resistance or a sink current")
+    c_hi = ciss if c_above is None else c_above
     td_off = stage_time(c_hi, v_drive, v_off, v_plateau, r_off, i_sink)
     tf = plateau_time(qgd, _a(v_plateau) - _a(v_off), r_off, i_sink)
     tail = stage_time(ciss, v_plateau, v_off, vth, r_off, i_sink)
-    return SwitchingTimes(td_on, tr, td_off, tf, tail, t_ri)
+    return td_off, tf, tail
 
 
 def pull_resistor_turn_off(r_pull, ciss, qgd, v_drive, v_plateau, vth=None, r_internal=0.0):
