@@ -13,6 +13,8 @@ the delay and the plateau interval grow.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from reviewer.derive.gate import levels
@@ -114,8 +116,14 @@ def _each(fn, *xs):
     if not is_array(*xs):
         return fn(*xs)
     n = max(np.size(x) for x in xs if isinstance(x, np.ndarray))
-    return [fn(*(float(x[i]) if isinstance(x, np.ndarray) and x.ndim else x for x in xs))
-            for i in range(n)]
+    seen: dict = {}  # points with the same inputs (the vertices of a box, say) share one text
+    texts = []
+    for i in range(n):
+        at = tuple(float(x[i]) if isinstance(x, np.ndarray) and x.ndim else x for x in xs)
+        if at not in seen:
+            seen[at] = fn(*at)
+        texts.append(seen[at])
+    return texts
 
 
 def _note(note):
@@ -288,13 +296,21 @@ def _dead_time(ctx: Ctx, side: str) -> tuple[float, float, str]:
     mism, spread, res = (ctx.v(f"timing.{k}") for k in ("delay_mismatch", "delay_spread", "resolution"))
     eff = sp.effective_dead_time(t, *(0.0 if x is None else x for x in (mism, spread, res)))
     loss = t - eff
+    return eff, loss, _note(_each(_dead_time_note, t, mism, spread, res))
 
-    def say(t, mism, spread, res):
-        parts = [w for w, x in (("driver delay mismatch", mism), ("delay spread", spread),
-                                ("controller resolution", res)) if x]
-        return f"set {render(t, 's')}, less {' and '.join(parts)}" if parts else ""
 
-    return eff, loss, _note(_each(say, t, mism, spread, res))
+@lru_cache(maxsize=4096)
+def _dead_time_note(t: float, mism, spread, res) -> str:
+    """What the effective dead time is made of, for one point (kept: rendering is slow)."""
+    parts = [w for w, x in (("driver delay mismatch", mism), ("delay spread", spread),
+                            ("controller resolution", res)) if x]
+    return f"set {render(t, 's')}, less {' and '.join(parts)}" if parts else ""
+
+
+@lru_cache(maxsize=4096)
+def _pull_path(r: float) -> str:
+    """How an outgoing switch with a pull resistor ``r`` [Ω] alone turns off, for one point."""
+    return f"through its {render(r, 'Ω')} pull resistor, its only turn-off path"
 
 
 def derive(ctx: Ctx) -> None:
@@ -321,6 +337,7 @@ def derive(ctx: Ctx) -> None:
         if side in fast:
             _current_edges(ctx, side, fast[side])
 
+    deads: dict[str, float] = {}
     for side in SIDES:
         other = OTHER[side]
         with ctx.section(f"switching.{side}.dvdt", f"switching.{side}.induced_vgs"):
@@ -342,6 +359,7 @@ def derive(ctx: Ctx) -> None:
             "outgoing_charge")]
         with ctx.section(*edge):
             dead, loss, note = _dead_time(ctx, side)
+            deads[side] = dead
             ctx.publish(f"timing.{side}.dead_time", dead, note)
             ctx.publish(f"timing.{side}.dead_time_loss", loss)
             if side not in sw or other not in sw:
@@ -361,8 +379,7 @@ def derive(ctx: Ctx) -> None:
             ctx.publish(f"timing.{side}.outgoing_charge", sw[other]["off_charge"])
             pull = ctx.v(f"drive.{other}.pull_resistor")
             if sw[other]["pull_only"]:
-                path = _text(_each(lambda r: f"through its {render(r, 'Ω')} pull resistor, its "
-                                   "only turn-off path", pull))
+                path = _text(_each(_pull_path, pull))
             else:
                 path = "through its gate drive"
             ctx.publish(f"timing.{side}.outgoing_path", path)
@@ -376,7 +393,8 @@ def derive(ctx: Ctx) -> None:
                         "both channels fully on at T_j,max, no loop inductance: an upper bound")
 
     with ctx.section("timing.dead_time_fraction"):
-        dead = out(np.maximum(*(_dead_time(ctx, s)[0] for s in SIDES)))
+        # each side's dead time as above (a side whose section lacked data raises here again)
+        dead = out(np.maximum(*(deads[s] if s in deads else _dead_time(ctx, s)[0] for s in SIDES)))
         ctx.publish("timing.dead_time_fraction", sp.dead_time_fraction(dead, ctx.q("op.switching_frequency")))
 
     kind = ctx.v("modulation.kind")
