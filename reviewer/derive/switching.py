@@ -153,16 +153,13 @@ def plateau(ctx: Ctx, side: str, vth: float) -> float:
     return gp.miller_plateau(vth, i_d, gfs)
 
 
-def _times(ctx: Ctx, side: str, v_max: float, r_int1: float, slow: bool = True) -> dict:
-    """Every interval of ``side`` with internal gate resistance ``r_int1`` per device [Ω].
-
-    ``slow`` False leaves out what only the slow set is used for (the turn-off at the current
-    that makes it longest, its charge and time per ohm): the edge-speed set needs none of it."""
+def _gate(ctx: Ctx, side: str, v_max: float) -> dict:
+    """What ``side``'s intervals are made from that the internal gate resistance leaves alone:
+    levels, plateau, charge capacitances, the drive stage (read once for both interval sets)."""
     sw, dr = f"switch.{side}", f"drive.{side}"
     ciss1, qgd1, vth = ctx.need(f"{sw}.ciss", f"{sw}.qgd", f"{sw}.vth")
     n, own = _n_eff(ctx, side)
     qgd = qgd1 * n
-    r_int = r_int1 / n
     rg = ctx.v(f"{dr}.r_gate") / (n if own else 1)
     rg_off = ctx.v(f"{dr}.r_gate_off")
     rg_off = rg if rg_off is None else rg_off / (n if own else 1)
@@ -176,7 +173,23 @@ def _times(ctx: Ctx, side: str, v_max: float, r_int1: float, slow: bool = True) 
     r_src, r_snk = ctx.v(f"{dr}.r_source"), ctx.v(f"{dr}.r_sink")
     i_src, i_snk = ctx.v(f"{dr}.source_current"), ctx.v(f"{dr}.sink_current")
     pull = ctx.v(f"{dr}.pull_resistor") if ctx.v(f"{dr}.pull_to") != "none" else None
+    return {"ciss1": ciss1, "vth": vth, "n": n, "qgd": qgd, "rg": rg, "rg_off": rg_off,
+            "v_on": v_on, "v_off": v_off, "vp": vp, "c_lo": c_lo, "c_hi": c_hi,
+            "r_src": r_src, "r_snk": r_snk, "i_src": i_src, "i_snk": i_snk, "pull": pull,
+            "cgd": ctx.v(f"{sw}.crss")}
 
+
+def _times(ctx: Ctx, side: str, g: dict, r_int1: float, slow: bool = True) -> dict:
+    """Every interval of ``side`` (gate ``g`` from :func:`_gate`) with internal gate
+    resistance ``r_int1`` per device [Ω].
+
+    ``slow`` False leaves out what only the slow set is used for (the turn-off at the current
+    that makes it longest, its charge and time per ohm): the edge-speed set needs none of it."""
+    dr = f"drive.{side}"
+    ciss1, vth, n, qgd, rg, rg_off = (g[k] for k in ("ciss1", "vth", "n", "qgd", "rg", "rg_off"))
+    v_on, v_off, vp, c_lo, c_hi = (g[k] for k in ("v_on", "v_off", "vp", "c_lo", "c_hi"))
+    r_src, r_snk, i_src, i_snk, pull = (g[k] for k in ("r_src", "r_snk", "i_src", "i_snk", "pull"))
+    r_int = r_int1 / n
     if r_src is None and i_src is None:
         raise NeedsData(f"{dr}.source_current", f"{dr}.r_source")
     # a stage given by its current limit alone has loop resistance only where R_g + R_int > 0
@@ -205,7 +218,7 @@ def _times(ctx: Ctx, side: str, v_max: float, r_int1: float, slow: bool = True) 
         "td_off": t.td_off, "fall_time": t.tf, "tail": t.tail, "turn_on_time": t.turn_on,
         "pull_only": pull_only,
         "off_r_fixed": r_fixed, "hold_resistance": hold, "rg_internal_used": r_int1,
-        "_cgd": ctx.v(f"{sw}.crss"), "_ciss1": ciss1, "_n": n, "_vth": vth,
+        "_cgd": g["cgd"], "_ciss1": ciss1, "_n": n, "_vth": vth,
         "_r_on": r_on, "_r_off": r_off, "_c_lo": c_lo,
     }
     if not slow:
@@ -232,11 +245,12 @@ def _times(ctx: Ctx, side: str, v_max: float, r_int1: float, slow: bool = True) 
 def _switch(ctx: Ctx, side: str, v_max: float) -> tuple[dict, dict]:
     """(slow, fast) interval sets: the same unless the internal gate resistance is absent."""
     given = ctx.v(f"switch.{side}.rg_internal")
+    g = _gate(ctx, side, v_max)
     if given is not None:
-        t = _times(ctx, side, v_max, given)
+        t = _times(ctx, side, g, given)
         return t, t
-    return (_times(ctx, side, v_max, RG_INTERNAL_SLOW),
-            _times(ctx, side, v_max, RG_INTERNAL_FAST, slow=False))
+    return (_times(ctx, side, g, RG_INTERNAL_SLOW),
+            _times(ctx, side, g, RG_INTERNAL_FAST, slow=False))
 
 
 def _gfs(ctx: Ctx, side: str, fast: dict, i_dev: float) -> float:
