@@ -2,9 +2,17 @@
 
 from __future__ import annotations
 
+from functools import reduce
+
+import numpy as np
+
 from reviewer.derive.stress import gate_source_range
 from reviewer.physics import gate as gp
+from reviewer.physics.arrays import out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
+
+VECTOR = True
+"""Evaluated over arrays (one element per point) by :meth:`reviewer.quantities.Runner.batch`."""
 
 QUANTITIES = declare(
     ("gate.{side}.vgs_on_min", "V", "On-state gate-source voltage at the lowest bus, after any "
@@ -35,8 +43,8 @@ def levels(ctx: Ctx, side: str, v_bus: float) -> tuple[float, float]:
     polarity = ctx.v(f"switch.{side}.polarity")
     on = gate_source_range(ctx, side, "on_level", v_bus)
     off = gate_source_range(ctx, side, "off_level", v_bus)
-    return (min(gp.enhancement(v, polarity) for v in on),
-            max(gp.enhancement(v, polarity) for v in off))
+    return (out(np.minimum(*(gp.enhancement(v, polarity) for v in on))),
+            out(np.maximum(*(gp.enhancement(v, polarity) for v in off))))
 
 
 def pull_tied_to_own_source(pull_to: str, side: str, polarity: str) -> bool:
@@ -58,8 +66,8 @@ def derive(ctx: Ctx) -> None:
         on_lo, _ = levels(ctx, side, v_min)
         on_hi, off_hi = levels(ctx, side, v_max)
         _, off_lo = levels(ctx, side, v_min)
-        ctx.publish(f"gate.{side}.vgs_on_min", min(on_lo, on_hi))
-        ctx.publish(f"gate.{side}.vgs_off", max(off_lo, off_hi))
+        ctx.publish(f"gate.{side}.vgs_on_min", out(np.minimum(on_lo, on_hi)))
+        ctx.publish(f"gate.{side}.vgs_off", out(np.maximum(off_lo, off_hi)))
 
         pull = ctx.v(f"{dr}.pull_resistor")
         pull_to = ctx.v(f"{dr}.pull_to")
@@ -79,7 +87,7 @@ def derive(ctx: Ctx) -> None:
                 for s in gp.source_node_voltage(polarity, side, v_max, on):
                     g = s + (vgs if polarity == "n" else -vgs)
                     rail = {"source": s, "ground": 0.0, "bus": v_max}[pull_to]
-                    v_across = max(v_across, abs(g - rail))
+                    v_across = out(np.maximum(v_across, np.abs(g - rail)))
             ctx.publish(f"gate.{side}.pull_voltage", v_across)
             ctx.publish(f"gate.{side}.pull_power", gp.resistor_power(v_across, pull))
 
@@ -98,7 +106,7 @@ def derive(ctx: Ctx) -> None:
         if ctx.v(f"{dr}.kind") == "controller_pin":
             given = [x for x in (ctx.v(f"{dr}.source_current"), ctx.v(f"{dr}.sink_current"))
                      if x is not None]
-            i_pin = min(given) if given else PIN_CURRENT_DEFAULT
+            i_pin = out(reduce(np.minimum, given)) if given else PIN_CURRENT_DEFAULT
             ctx.publish(f"gate.{side}.pin_current", i_pin,
                         "" if given else "no pin current given: 20 mA assumed (common practice)")
             with ctx.section(f"gate.{side}.pin_edge_time"):

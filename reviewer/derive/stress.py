@@ -2,9 +2,17 @@
 
 from __future__ import annotations
 
+from functools import reduce
+
+import numpy as np
+
 from reviewer.physics import gate, grounding
 from reviewer.physics import thermal as tp
+from reviewer.physics.arrays import out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
+
+VECTOR = True
+"""Evaluated over arrays (one element per point) by :meth:`reviewer.quantities.Runner.batch`."""
 
 QUANTITIES = declare(
     ("stress.{side}.overshoot", "V", "Drain-source overshoot at turn-off, L_loop · di/dt over the "
@@ -32,7 +40,7 @@ def gate_source_range(ctx: Ctx, side: str, which: str, v_bus: float) -> tuple[fl
     polarity = ctx.v(f"switch.{side}.polarity")
     dr = f"drive.{side}"
     level = ctx.v(f"{dr}.{which}")
-    level = v_bus if level == "bus" else level
+    level = v_bus if isinstance(level, str) and level == "bus" else level
     if ctx.v(f"{dr}.levels_from") == "source":
         signed = level if polarity == "n" else -level
         lo = hi = signed
@@ -52,9 +60,10 @@ def derive(ctx: Ctx) -> None:
         off = gate_source_range(ctx, side, "off_level", v_max)
         enh_on = [gate.enhancement(v, polarity) for v in on]
         enh_off = [gate.enhancement(v, polarity) for v in off]
-        ctx.publish(f"stress.{side}.vgs_on", min(enh_on))
-        ctx.publish(f"stress.{side}.vgs_off", min(enh_off))
-        ctx.publish(f"stress.{side}.vgs_peak", max(abs(v) for v in (*on, *off)))
+        ctx.publish(f"stress.{side}.vgs_on", out(np.minimum(*enh_on)))
+        ctx.publish(f"stress.{side}.vgs_off", out(np.minimum(*enh_off)))
+        ctx.publish(f"stress.{side}.vgs_peak",
+                    out(reduce(np.maximum, (np.abs(v) for v in (*on, *off)))))
 
         with ctx.section(f"stress.{side}.overshoot", f"stress.{side}.vds_peak",
                          f"stress.{side}.avalanche_energy"):
@@ -65,22 +74,22 @@ def derive(ctx: Ctx) -> None:
             else:
                 i_pk = ctx.q("op.load_current_peak")
                 # the overshoot belongs to the current-fall interval (never the voltage rise)
-                dv = float(grounding.switching_overshoot(loop, i_pk,
-                                                         ctx.q(f"switching.{side}.current_fall")))
+                dv = out(grounding.switching_overshoot(loop, i_pk,
+                                                       ctx.q(f"switching.{side}.current_fall")))
                 peak = v_max + dv
                 ctx.publish(f"stress.{side}.overshoot", dv)
                 ctx.publish(f"stress.{side}.vds_peak", peak)
                 rating = ctx.v(f"switch.{side}.vds_rating")
                 ctx.publish(f"stress.{side}.avalanche_energy",
-                            float(grounding.avalanche_energy(loop, i_pk, rating, v_max, peak)),
+                            out(grounding.avalanche_energy(loop, i_pk, rating, v_max, peak)),
                             "the loop's energy clamped at the rating (unclamped-inductive form)")
         with ctx.section(f"stress.{side}.turn_on_peak"):
             n = int(ctx.v(f"switch.{side}.count"))
-            i_dev = float(tp.device_current(ctx.q("op.load_current_peak"), n))
+            i_dev = out(tp.device_current(ctx.q("op.load_current_peak"), n))
             other = "low" if side == "high" else "high"
             qrr, trr = ctx.v(f"switch.{other}.diode_qrr"), ctx.v(f"switch.{other}.diode_trr")
             if qrr is not None and trr is not None:
-                i_rr = float(tp.recovery_peak_current(qrr, trr)) / n
+                i_rr = out(tp.recovery_peak_current(qrr, trr)) / n
                 ctx.publish(f"stress.{side}.turn_on_peak", i_dev + i_rr,
                             "with the other switch's diode recovery current, 2·Q_rr/t_rr")
             else:
@@ -90,8 +99,8 @@ def derive(ctx: Ctx) -> None:
         with ctx.section("stress.node_undershoot"):
             loop = ctx.need("grounding.loop_inductance")
             vf = ctx.need("switch.low.diode_vf")
-            di = float(grounding.current_slope(ctx.q("op.load_current_peak"),
-                                               ctx.q("switching.high.current_fall")))
-            ctx.publish("stress.node_undershoot", vf + float(grounding.inductive_voltage(loop, di)),
+            di = out(grounding.current_slope(ctx.q("op.load_current_peak"),
+                                             ctx.q("switching.high.current_fall")))
+            ctx.publish("stress.node_undershoot", vf + out(grounding.inductive_voltage(loop, di)),
                         "the whole commutation-loop inductance taken as between the low-side "
                         "source and the driver's ground (conservative)")

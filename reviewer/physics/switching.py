@@ -57,6 +57,16 @@ def _out(x):
     return float(a) if a.ndim == 0 else a
 
 
+def _pick(cond, a, b):
+    """``np.where(cond, a, b)``; for scalar operands a plain choice between the two values.
+
+    The same numbers either way (a choice does no arithmetic); the plain choice spares the
+    scalar runs numpy's per-call cost, many times over in :func:`stage_time`."""
+    if np.ndim(cond) == 0 and np.ndim(a) == 0 and np.ndim(b) == 0:
+        return a if cond else b
+    return np.where(cond, a, b)
+
+
 def gate_loop_resistance(r_driver, r_gate, r_internal):
     """Resistance of the gate loop: drive output + series gate resistor + internal [Ω].
 
@@ -95,11 +105,11 @@ def rc_crossing_time(r, c, v_from, v_to, v_cross):
     span = v1 - v0
     rest = v1 - vx
     with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = np.where(span * rest > 0, span / rest, np.nan)
+        ratio = _pick(span * rest > 0, span / rest, np.nan)
         t = r * c * np.log(ratio)
     started_past = ((span != 0) & ((vx - v0) * np.sign(span) <= 0)) | (vx == v0)
     never = (~started_past) & ((rest * np.sign(span) <= 0) | (span == 0))
-    t = np.where(started_past, 0.0, np.where(never, np.inf, t))
+    t = _pick(started_past, 0.0, _pick(never, np.inf, t))
     return _out(t)
 
 
@@ -140,7 +150,7 @@ def rise_time(qgd, r_on, v_drive, v_plateau):
     q, r, vd, vp = (_a(x) for x in (qgd, r_on, v_drive, v_plateau))
     head = vd - vp
     with np.errstate(divide="ignore"):
-        return _out(np.where(head > 0, q * r / np.where(head > 0, head, 1.0), np.inf))
+        return _out(_pick(head > 0, q * r / _pick(head > 0, head, 1.0), np.inf))
 
 
 def turn_off_delay(r_off, ciss, v_drive, v_plateau, v_off=0.0):
@@ -180,7 +190,7 @@ def fall_time(qgd, r_off, v_plateau, v_off=0.0):
     q, r, vp, vo = (_a(x) for x in (qgd, r_off, v_plateau, v_off))
     head = vp - vo
     with np.errstate(divide="ignore"):
-        return _out(np.where(head > 0, q * r / np.where(head > 0, head, 1.0), np.inf))
+        return _out(_pick(head > 0, q * r / _pick(head > 0, head, 1.0), np.inf))
 
 
 def current_fall_tail(r_off, ciss, v_plateau, vth, v_off=0.0):
@@ -261,17 +271,17 @@ def stage_time(c, v_from, v_to, v_cross, r=None, i_limit=None):
     c, v0, v1, vx = (_a(x) for x in (c, v_from, v_to, v_cross))
     rr = _a(0.0 if r is None else r)
     ii = _a(np.inf if i_limit is None else i_limit)
-    s = np.where(v1 >= v0, 1.0, -1.0)
+    s = _pick(v1 >= v0, 1.0, -1.0)
     d0 = s * (v1 - v0)          # headroom at the start
     dx = s * (v1 - vx)          # headroom at the crossing
     db = ii * rr                # headroom below which the RC form holds
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         lin = np.maximum(d0 - np.maximum(dx, db), 0.0)
-        t1 = np.where(lin > 0, c * lin / ii, 0.0)
+        t1 = _pick(lin > 0, c * lin / ii, 0.0)
         top = np.minimum(d0, db)
-        t2 = np.where((dx < top) & (rr > 0), rr * c * np.log(top / np.where(dx > 0, dx, 1.0)), 0.0)
+        t2 = _pick((dx < top) & (rr > 0), rr * c * np.log(top / _pick(dx > 0, dx, 1.0)), 0.0)
         t = t1 + t2
-    t = np.where(dx >= d0, 0.0, np.where(dx <= 0, np.inf, t))
+    t = _pick(dx >= d0, 0.0, _pick(dx <= 0, np.inf, t))
     return _out(t)
 
 
@@ -298,8 +308,8 @@ def plateau_time(q, v_head, r=None, i_limit=None):
     rr = _a(0.0 if r is None else r)
     ii = _a(np.inf if i_limit is None else i_limit)
     with np.errstate(divide="ignore", invalid="ignore"):
-        per = np.maximum(1.0 / ii, rr / np.where(vh > 0, vh, 1.0))
-    return _out(np.where(vh > 0, q * per, np.inf))
+        per = np.maximum(1.0 / ii, rr / _pick(vh > 0, vh, 1.0))
+    return _out(_pick(vh > 0, q * per, np.inf))
 
 
 def current_rise_time(r_on, ciss, v_drive, vth, v_plateau):
@@ -339,8 +349,8 @@ def current_edge_time(i_switched, v_head, l_source, r_loop, ciss, gfs):
     """
     i, vh, ls, r, c, g = (_a(x) for x in (i_switched, v_head, l_source, r_loop, ciss, gfs))
     with np.errstate(divide="ignore", invalid="ignore"):
-        t = np.abs(i) * (ls + r * c / g) / np.where(vh > 0, vh, 1.0)
-    return _out(np.where(vh > 0, t, np.inf))
+        t = np.abs(i) * (ls + r * c / g) / _pick(vh > 0, vh, 1.0)
+    return _out(_pick(vh > 0, t, np.inf))
 
 
 def charge_capacitances(ciss, qg=None, qgs=None, qgd=None, v_plateau=None, v_qg=None):
@@ -439,14 +449,48 @@ def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None
         raise ValueError("turn-on needs a loop resistance or a source current")
     if r_off is None and i_sink is None:
         raise ValueError("turn-off needs a loop resistance or a sink current")
-    c_hi = ciss if c_above is None else c_above
     td_on = stage_time(ciss, v_off, v_drive, vth, r_on, i_source)
     t_ri = stage_time(ciss, vth, v_drive, v_plateau, r_on, i_source)
     tr = plateau_time(qgd, _a(v_drive) - _a(v_plateau), r_on, i_source)
+    td_off, tf, tail = turn_off_intervals(ciss, qgd, v_drive, vth, v_plateau, r_off=r_off,
+                                          i_sink=i_sink, v_off=v_off, c_above=c_above)
+    return SwitchingTimes(td_on, tr, td_off, tf, tail, t_ri)
+
+
+def turn_off_intervals(ciss, qgd, v_drive, vth, v_plateau, *, r_off=None, i_sink=None,
+                       v_off=0.0, c_above=None):
+    """The three turn-off intervals (t_d(off), t_rv, t_fi) of a switch [s].
+
+    The turn-off half of :func:`switching_times`, for a caller that needs only the turn-off
+    (the turn-off at another plateau, say): the same formulas, the same numbers.
+
+    Parameters
+    ----------
+    ciss : input capacitance below the plateau (C_iss, or Q_gs/V_pl) [F]
+    qgd : gate-drain charge [C]
+    v_drive : on-level the gate starts from [V]
+    vth : threshold magnitude [V]
+    v_plateau : Miller plateau [V]
+    r_off : gate loop resistance turning off [Ω]
+    i_sink : stage current limit turning off [A]
+    v_off : off-level [V]
+    c_above : input capacitance above the plateau [F]; None: ``ciss``
+
+    Returns
+    -------
+    (td_off, tf, tail) [s]; their sum is :attr:`SwitchingTimes.turn_off_to_cutoff`.
+
+    References
+    ----------
+    Mohan, Undeland & Robbins, *Power Electronics*, 3rd ed., §22-4; Baliga 2008 §6.10.
+    """
+    if r_off is None and i_sink is None:
+        raise ValueError("turn-off needs a loop resistance or a sink current")
+    c_hi = ciss if c_above is None else c_above
     td_off = stage_time(c_hi, v_drive, v_off, v_plateau, r_off, i_sink)
     tf = plateau_time(qgd, _a(v_plateau) - _a(v_off), r_off, i_sink)
     tail = stage_time(ciss, v_plateau, v_off, vth, r_off, i_sink)
-    return SwitchingTimes(td_on, tr, td_off, tf, tail, t_ri)
+    return td_off, tf, tail
 
 
 def pull_resistor_turn_off(r_pull, ciss, qgd, v_drive, v_plateau, vth=None, r_internal=0.0):
