@@ -27,6 +27,7 @@ depends on, or a search), which asks the sheet's runner for the corners it needs
 
 from __future__ import annotations
 
+import functools
 import re
 from dataclasses import dataclass, field
 from typing import Any, Iterable
@@ -331,8 +332,8 @@ class Runner:
                 out[name] = np.array(col, dtype=float)
             elif all(isinstance(x, bool) for x in col):
                 out[name] = np.array(col, dtype=bool)
-            else:  # texts that differ between points: an array of them (code that branches on
-                out[name] = np.array(col, dtype=object)  # one raises, and falls back)
+            else:  # texts that differ between points: one per point (_per_point)
+                out[name] = np.array(col, dtype=object).view(_per_point())
         if any(c.missing != first.missing for c in ctxs):
             return False
         actx = Ctx(self.design, values, self.catalogue, typical=False)
@@ -416,6 +417,30 @@ class Runner:
             elif n in self.owner:
                 found |= md[self.owner[n]]
         return tuple(p for p in self.tol if p in found)
+
+
+def _per_point_text(self: Any, *_: Any) -> str:
+    raise TypeError("a text that differs between the points cannot be quoted in an array call")
+
+
+@functools.cache
+def _per_point() -> Any:
+    """The array type of texts that differ between points (made on first use: numpy is
+    imported only where arrays are evaluated)."""
+    import numpy as np
+
+    class PerPoint(np.ndarray):
+        """Texts an earlier module published, one per point, as an array call reads them:
+        comparing gives an array (so an ``if`` on it raises, and the module falls back);
+        quoting one in a text raises rather than printing the whole array."""
+
+        __format__ = __str__ = _per_point_text
+
+        def __array_wrap__(self, obj: Any, context: Any = None, return_scalar: bool = False):
+            plain = obj.view(np.ndarray)  # what is computed from the texts is a plain array
+            return plain[()] if return_scalar else plain
+
+    return PerPoint
 
 
 def _element(note: Any, i: int, n: int) -> str:

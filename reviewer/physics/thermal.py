@@ -15,6 +15,12 @@ iterates T ← T_a + θ·P(T) from ambient. P rises with T, so the iterates rise
 settle on the lowest (stable) solution when there is one; when there is none the temperature
 runs away, and the function says so in its result rather than raising.
 
+Every function but :func:`switch_frequency` takes floats or numpy arrays (one element per
+corner or sample) and returns a float for scalar inputs; the two iterative ones
+(:func:`solve_junction_temperature`, :func:`largest_total_resistance`) iterate on the whole
+array, each element stopping by the scalar rule, so that an element is what a scalar call gives,
+to the last bit.
+
 Load currents per switch (:func:`switch_currents`) assume a sinusoidal load current of peak
 I_pk and lag φ behind the bridge voltage's fundamental (the fundamental-only estimate until
 harmonics are known), and MOSFET channels that conduct in both directions while on (so the
@@ -39,6 +45,7 @@ from typing import Literal
 import numpy as np
 
 from reviewer.physics.arrays import arr as _a
+from reviewer.physics.arrays import is_array
 from reviewer.physics.arrays import out as _out
 
 RdsModel = Literal["exponential", "linear"]
@@ -296,6 +303,27 @@ def _runaway_message(ceiling: float, steps: int, passed: bool, max_iter: int) ->
             f"{max_iter} steps: at the edge of runaway)")
 
 
+def _solve_one(t_ambient: float, rth: float, i_rms: float, rds_ref: float, t_ref: float,
+               hot_factor: float, t_hot: float, p_other: float, t_ceiling: float,
+               model: RdsModel, tol: float, max_iter: int) -> JunctionSolution:
+    """:func:`solve_junction_temperature` of floats: the scalar iteration."""
+    t = t_ambient
+    i2 = i_rms ** 2
+    for n in range(1, max_iter + 1):
+        r = float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model))
+        p = i2 * r + p_other
+        t_new = t_ambient + rth * p
+        if not math.isfinite(t_new) or t_new > t_ceiling:
+            return JunctionSolution(False, None, None, None, n,
+                                    _runaway_message(t_ceiling, n, True, max_iter))
+        if abs(t_new - t) < tol:
+            r = float(rds_on_at(t_new, rds_ref, t_ref, hot_factor, t_hot, model))
+            return JunctionSolution(True, t_new, r, i2 * r + p_other, n, "converged")
+        t = t_new
+    return JunctionSolution(False, None, None, None, max_iter,
+                            _runaway_message(t_ceiling, max_iter, False, max_iter))
+
+
 def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor, t_hot,
                                p_other=0.0, model: RdsModel = "exponential",
                                tol: float = 1e-6, max_iter: int = 20000,
@@ -306,8 +334,9 @@ def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor
     monotonically; they stop when a step is below ``tol`` (converged) or when T passes
     ``t_ceiling`` or ``max_iter`` is spent (no solution: thermal runaway). Every argument but
     ``model``, ``tol`` and ``max_iter`` may be an array: the whole array is iterated at once,
-    each element stopping by the same rule at its own step (a mask of the elements still
-    iterating), so that each element is what the scalar call gives, to the last bit.
+    each element stopping by the scalar rule at its own step (a mask of the elements still
+    iterating), so that each element is what the scalar call gives, to the last bit; scalars
+    iterate on floats.
 
     Parameters
     ----------
@@ -325,8 +354,10 @@ def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor
     Fixed-point iteration of a monotone map (Banach; e.g. R. L. Burden and J. D. Faires,
     *Numerical Analysis*, 9th ed., §2.2); electro-thermal loop: Baliga 2008 §6.7.
     """
-    given = np.broadcast_arrays(*(_a(x) for x in (t_ambient, rth, i_rms, rds_ref, t_ref,
-                                                   hot_factor, t_hot, p_other, t_ceiling)))
+    numbers = (t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor, t_hot, p_other, t_ceiling)
+    if not is_array(*numbers):
+        return _solve_one(*(float(x) for x in numbers), model, tol, max_iter)
+    given = np.broadcast_arrays(*(_a(x) for x in numbers))
     shape = given[0].shape
     ta, th, i, rr, tr, k, thot, po, ceil = (g.ravel() for g in given)
     i2 = _square(i)
@@ -339,37 +370,29 @@ def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor
     live = np.arange(size)
     t = ta.copy()
     w = [ta, th, i2, rr, tr, k, thot, po, ceil]
-    for n in range(1, max_iter + 1):
-        wta, wth, wi2, wrr, wtr, wk, wthot, wpo, wceil = w
-        r = _a(rds_on_at(t, wrr, wtr, wk, wthot, model))
-        p = wi2 * r + wpo
-        t_new = wta + wth * p
-        with np.errstate(invalid="ignore"):
-            over = ~np.isfinite(t_new) | (t_new > wceil)
-            done = ~over & (np.abs(t_new - t) < tol)
-        stop = over | done
-        if stop.any():
-            passed[live[over]] = True
-            converged[live[done]] = True
-            steps[live[stop]] = n
-            t_j[live[done]] = t_new[done]
-            keep = ~stop
-            live, t = live[keep], t_new[keep]
-            w = [x[keep] for x in w]
-            if live.size == 0:
-                break
-        else:
-            t = t_new
     with np.errstate(invalid="ignore", over="ignore"):
+        for n in range(1, max_iter + 1):
+            wta, wth, wi2, wrr, wtr, wk, wthot, wpo, wceil = w
+            p = wi2 * _a(rds_on_at(t, wrr, wtr, wk, wthot, model)) + wpo
+            t_new = wta + wth * p
+            # the scalar rule, per element: past the ceiling (or not finite) first, then settled
+            over = ~np.isfinite(t_new) | (t_new > wceil)
+            stop = over | (np.abs(t_new - t) < tol)
+            if stop.any():
+                done = stop & ~over
+                passed[live[over]] = True
+                converged[live[done]] = True
+                steps[live[stop]] = n
+                t_j[live[done]] = t_new[done]
+                keep = ~stop
+                live, t = live[keep], t_new[keep]
+                w = [x[keep] for x in w]
+                if live.size == 0:
+                    break
+            else:
+                t = t_new
         r_j = _a(rds_on_at(t_j, rr, tr, k, thot, model))
         p_j = i2 * r_j + po
-    if not shape:  # a scalar call: the result as it always was, floats or None
-        if converged[0]:
-            return JunctionSolution(True, float(t_j[0]), float(r_j[0]), float(p_j[0]),
-                                    int(steps[0]), "converged")
-        return JunctionSolution(False, None, None, None, int(steps[0]),
-                                _runaway_message(float(ceil[0]), int(steps[0]),
-                                                 bool(passed[0]), max_iter))
     messages = ["converged" if c else _runaway_message(float(x), int(s), bool(o), max_iter)
                 for c, x, s, o in zip(converged.tolist(), ceil.tolist(), steps.tolist(),
                                       passed.tolist())]
@@ -377,6 +400,35 @@ def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor
                             np.where(converged, r_j, np.nan).reshape(shape),
                             np.where(converged, p_j, np.nan).reshape(shape),
                             steps.reshape(shape), messages)
+
+
+def _largest_total_one(t_limit: float, t_ambient: float, i_rms: float, rds_ref: float,
+                       t_ref: float, hot_factor: float, t_hot: float, p_other: float,
+                       model: RdsModel) -> float:
+    """:func:`largest_total_resistance` of floats: the scalar bisection."""
+    i2 = i_rms ** 2
+
+    def p(t):
+        return i2 * float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model)) + p_other
+
+    def dh_sign(t):
+        return p(t) - (t - t_ambient) * i2 * float(rds_on_slope(t, rds_ref, t_ref, hot_factor,
+                                                                  t_hot, model))
+
+    if t_limit <= t_ambient:
+        return 0.0
+    if dh_sign(t_limit) >= 0:
+        t_best = t_limit
+    else:
+        lo, hi = t_ambient, t_limit
+        for _ in range(200):
+            mid = 0.5 * (lo + hi)
+            if dh_sign(mid) >= 0:
+                lo = mid
+            else:
+                hi = mid
+        t_best = lo
+    return (t_best - t_ambient) / p(t_best)
 
 
 def largest_total_resistance(t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor, t_hot,
@@ -387,14 +439,16 @@ def largest_total_resistance(t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_fact
     h peaks (beyond that peak there is none: runaway), so the answer is the maximum of h over
     [T_a, T_limit]: h(T_limit) if h still rises there, else the peak of h (found by bisection
     on h' = 0, i.e. P(T) = (T − T_a)·P'(T)); 0 where T_limit ≤ T_a. Arrays are bisected
-    element by element at once (the same 200 halvings as a scalar call).
+    element by element at once (the same 200 halvings as a scalar call, which works on floats).
 
     References
     ----------
     Inversion of T = T_a + θ·P(T); Mohan, Undeland & Robbins §29-2.
     """
-    given = np.broadcast_arrays(*(_a(x) for x in (t_limit, t_ambient, i_rms, rds_ref, t_ref,
-                                                   hot_factor, t_hot, p_other)))
+    numbers = (t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor, t_hot, p_other)
+    if not is_array(*numbers):
+        return _largest_total_one(*(float(x) for x in numbers), model)
+    given = np.broadcast_arrays(*(_a(x) for x in numbers))
     t_lim, ta, i, rr, tr, k, thot, po = given
     i2 = _square(i)
 
