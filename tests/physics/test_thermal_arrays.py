@@ -298,3 +298,44 @@ def test_batch_where_the_recovery_charge_is_zero_at_some_points():
     assert runs[0].out["thermal.low.recovery_loss"] == 0.0
     assert "no recovery loss" in runs[0].notes["thermal.low.recovery_loss"]
     assert "thermal.low.recovery_loss" not in runs[1].notes
+
+
+class _Quotes:
+    """A stand-in array module that quotes an earlier module's text in its note."""
+
+    VECTOR = True
+    from reviewer.context import declare as _declare
+    QUANTITIES = _declare(("quoted.path", "", "the low side's turn-off path, quoted", "text"))
+
+    @staticmethod
+    def derive(ctx):
+        path = ctx.q("timing.low.outgoing_path")
+        ctx.publish("quoted.path", "path", f"turned off {path}")
+
+
+def test_a_differing_earlier_text_quoted_in_an_array_call_falls_back_not_prints_an_array():
+    # the naive bench design turns its switches off through the pull resistor alone, and says
+    # so with the resistor's value: a toleranced resistor makes that text differ between the
+    # points; a module that quotes it falls back to scalar runs (and so names the right
+    # resistor at each point) rather than printing an array
+    from reviewer.derive import MODULES, switching
+    from reviewer.design import load_design
+    from reviewer.units import Span
+    from tests.conftest import EXAMPLES
+    from tests.engine.test_worstcase_property import with_spans
+
+    design = with_spans(load_design(EXAMPLES / "naive_bench_pchannel.toml"),
+                        {"drive.high.pull_resistor": Span(8e3, 1e4, 1.2e4)})
+    modules = MODULES[:MODULES.index(switching) + 1] + [_Quotes]
+    vector = Runner(design, replay=False, modules=modules)
+    scalar = Runner(design, replay=False, modules=modules)
+    points = [{"drive.high.pull_resistor": r} for r in (8e3, 1e4, 1.2e4)]
+    batch = vector.batch(points)
+    assert vector.fallbacks == 1
+    notes = [run.notes["quoted.path"] for run in batch]
+    assert notes == [scalar.point(at).notes["quoted.path"] for at in points]
+    assert "8 kΩ" in notes[0] and "12 kΩ" in notes[2] and "[" not in notes[1]
+    # the thermal module, which does not read the text, still runs as arrays over those points
+    full = Runner(design, replay=False)
+    full.batch(points)
+    assert full.fallbacks == 0 and full.vector_calls >= 1
