@@ -32,7 +32,7 @@ from itertools import islice
 from dataclasses import dataclass, field
 from typing import Any, Iterable
 
-from reviewer.context import SIDES, Ctx, Declared, NeedsData, declare
+from reviewer.context import SIDES, Ctx, Declared, NeedsData, SplitPoints, declare
 from reviewer.derive import MODULES
 from reviewer.units import Span
 
@@ -416,6 +416,19 @@ class Runner:
         on what earlier modules published (numbers and flags may differ: arrays), else one call
         per group of contexts that agree; the indices left to run one by one."""
         got = self._vector(module, [ctxs[i] for i in idx], varying, reads, idx, np)
+        if isinstance(got, tuple):  # SplitPoints: one call per group of equal keys
+            keys = np.asarray(got[1]).reshape(-1).tolist()
+            if len(keys) != len(idx) or len(set(keys)) < 2:  # no split: not array-safe here
+                self.fallbacks += 1
+                return idx
+            by_key: dict[Any, list[int]] = {}
+            for i, k in zip(idx, keys):
+                by_key.setdefault(k, []).append(i)
+            left: list[int] = []
+            for members in by_key.values():
+                left.extend(members if len(members) == 1 else
+                            self._vector_groups(module, ctxs, members, varying, reads, np))
+            return sorted(left)
         if got == "done":
             return []
         if got == "fails" or len(idx) < 2:
@@ -435,11 +448,12 @@ class Runner:
         return sorted(rest)
 
     def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
-                idx: list[int], np: Any) -> str:
+                idx: list[int], np: Any) -> str | tuple[str, Any]:
         """One call of an opted-in module over every context: "done"; "split" where the
         contexts differ in what earlier modules published (call per group), "flags" where the
         module raised on flags that differ (call per group of equal flags), "fails" where it
-        raised otherwise (not array-safe: every point one by one)."""
+        raised otherwise (not array-safe: every point one by one); ("groups", keys) where the
+        module raised :class:`reviewer.context.SplitPoints` (one call per group of equal keys)."""
         n = len(ctxs)
         values = dict(ctxs[0]._values)
         for p in varying:
@@ -471,6 +485,8 @@ class Runner:
         try:
             with np.errstate(all="ignore"):
                 module.derive(actx)
+        except SplitPoints as e:  # the module's points take different paths: by its keys
+            return ("groups", e.groups)
         except (TypeError, ValueError):  # code that is not array-safe: per-element fallback
             if flags:
                 return "flags"
@@ -491,7 +507,7 @@ class Runner:
                     x = v
                 c.out[k] = x
             c.missing.update(missing)
-            c.notes.update({k: _element(v, i, n) for k, v in actx.notes.items()})
+            c.notes.update({k: t for k, v in actx.notes.items() if (t := _element(v, i, n))})
             reads[idx[i]].append(got)
         return "done"
 

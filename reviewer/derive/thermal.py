@@ -3,16 +3,27 @@
 The load current is the fundamental estimate of :mod:`reviewer.derive.operating` (a sinusoid
 at the output frequency, lagging by the load's angle) until a waveform module publishes the
 harmonics; every loss figure carries that assumption in its note.
+
+Evaluates arrays (``VECTOR = True``, see :meth:`reviewer.quantities.Runner.batch`): where the
+points differ in whether a steady junction temperature exists, or whether its peak passes
+T_j,max, the module asks for the points in groups (:class:`reviewer.context.SplitPoints`), as
+those points publish different quantities.
 """
 
 from __future__ import annotations
 
 import math
+from typing import Any, Callable
+
+import numpy as np
 
 from reviewer.physics import pattern
 from reviewer.physics import thermal as tp
-from reviewer.context import SIDES, Ctx, NeedsData, declare
+from reviewer.physics.arrays import arr, is_array, out
+from reviewer.context import SIDES, Ctx, NeedsData, SplitPoints, declare
 from reviewer.units import render
+
+VECTOR = True
 
 TJ_MARGIN = 25.0
 """Margin below T_j,max the heatsink figure is solved for [°C]; the rule's default margin."""
@@ -49,13 +60,58 @@ QUANTITIES = declare(
 )
 
 
-def load_angle(ctx: Ctx) -> float:
+def _each(fn: Callable[..., Any], *xs: Any) -> Any:
+    """``fn`` (a function of floats) of every element of ``xs``: a float for scalars, else an
+    array; a ``math`` function so gives, element by element, the scalar result to the last bit
+    (numpy's arctan2 and arccos differ from the C library's in the last bit)."""
+    if not is_array(*xs):
+        return fn(*(float(x) for x in xs))
+    given = np.broadcast_arrays(*(arr(x) for x in xs))
+    return np.array([fn(*v) for v in zip(*(g.ravel().tolist() for g in given))],
+                    dtype=float).reshape(given[0].shape)
+
+
+def _or(x: Any, default: float) -> Any:
+    """``x or default`` of the scalar code, element by element: ``default`` where ``x`` is None
+    or 0."""
+    if x is None:
+        return default
+    if is_array(x):
+        return np.where(x == 0, default, x)
+    return x or default
+
+
+def _texts(fn: Callable[..., str], *xs: Any) -> Any:
+    """The text ``fn`` makes of the values ``xs``: one text when no value differs between the
+    points, else a list of texts, one per point (as a note may be)."""
+    if not is_array(*xs):
+        return fn(*xs)
+    given = np.broadcast_arrays(*(arr(x) for x in xs))
+    return [fn(*v) for v in zip(*(g.ravel().tolist() for g in given))]
+
+
+def _text_value(texts: Any) -> Any:
+    """A text quantity's value from :func:`_texts`: per-point texts as an array of texts."""
+    return np.array(texts, dtype=str) if isinstance(texts, list) else texts
+
+
+def _split(mask: Any) -> bool:
+    """``mask`` as one bool when it is the same at every point; else ask for the points in
+    groups (:class:`SplitPoints`): the two groups publish different quantities."""
+    m = np.asarray(mask, dtype=bool)
+    if m.ndim and m.any() and not m.all():
+        raise SplitPoints(m)
+    return bool(m.all()) if m.ndim else bool(m)
+
+
+def load_angle(ctx: Ctx) -> Any:
     kind = ctx.v("load.kind")
     if kind == "r_l":
         r, l_ = ctx.need("load.resistance", "load.inductance")
-        return math.atan2(2 * math.pi * ctx.need("output.frequency") * l_, r)
+        return out(_each(math.atan2, 2 * math.pi * ctx.need("output.frequency") * l_, r))
     if kind == "power_factor":
-        return math.acos(min(max(ctx.need("load.power_factor"), 0.0), 1.0))
+        return out(_each(math.acos, np.minimum(np.maximum(ctx.need("load.power_factor"), 0.0),
+                                               1.0)))
     return 0.0
 
 
@@ -74,22 +130,26 @@ def derive(ctx: Ctx) -> None:
         with ctx.section(*names):
             i_pk = ctx.q("op.load_current_peak")
             phi = ctx.q("thermal.load_angle")
-            alpha = ctx.v("modulation.notch_angle") or 0.0
-            index = ctx.v("modulation.index") or 1.0
+            alpha = _or(ctx.v("modulation.notch_angle"), 0.0)
+            index = _or(ctx.v("modulation.index"), 1.0)
             n = int(ctx.v(f"{sw}.count"))
             zero = ctx.v("modulation.zero_state")
             c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=index,
                                    zero_state=zero)
             rms = c.high_rms if side == "high" else c.low_rms
-            basis = FUNDAMENTAL
-            if ctx.has("waveform.bridge_current_rms") and ctx.q("op.load_current_rms") > 0:
-                # harmonics add heating: scale the conduction current by the true RMS over the
-                # fundamental's (the split between switches follows the fundamental)
-                rms *= ctx.q("waveform.bridge_current_rms") / ctx.q("op.load_current_rms")
-                basis = HARMONICS
-            i_dev = float(tp.device_current(rms, n))
-            i_sw = float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha,
-                                                               index=index, side=side), n))
+            basis: Any = FUNDAMENTAL
+            if ctx.has("waveform.bridge_current_rms"):
+                i_fund = ctx.q("op.load_current_rms")
+                harmonic = np.asarray(i_fund) > 0
+                if harmonic.any():
+                    # harmonics add heating: scale the conduction current by the true RMS over
+                    # the fundamental's (the split between switches follows the fundamental)
+                    rms = np.where(harmonic, rms * (ctx.q("waveform.bridge_current_rms") / i_fund),
+                                   rms)
+                    basis = _texts(lambda h: HARMONICS if h else FUNDAMENTAL, harmonic)
+            i_dev = out(tp.device_current(rms, n))
+            i_sw = out(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
+                                                             side=side), n))
             ctx.publish(f"thermal.{side}.device_rms", i_dev, basis)
             ctx.publish(f"thermal.{side}.device_switched", i_sw, FUNDAMENTAL)
 
@@ -99,28 +159,34 @@ def derive(ctx: Ctx) -> None:
             # all four intervals; the datasheet or inductance-bounded current fall where longer
             t_sum = ctx.q(f"switching.{side}.overlap_time")
             if ctx.has(f"switching.{side}.current_fall"):
-                t_sum += max(ctx.q(f"switching.{side}.current_fall") - ctx.q(f"switching.{side}.tail"), 0.0)
+                t_sum = t_sum + np.maximum(ctx.q(f"switching.{side}.current_fall")
+                                           - ctx.q(f"switching.{side}.tail"), 0.0)
             other = "low" if side == "high" else "high"
             qrr = ctx.v(f"switch.{other}.diode_qrr")
             spwm = kind not in ("square", "quasi_square")
             # sine PWM: a device turns on against the other's diode only in the carrier periods
             # it hard-switches (half of them for bipolar and unipolar)
-            share = (float(pattern.hard_switching(kind, i_pk, phi, index=index, side=side).fraction)
+            share = (pattern.hard_switching(kind, i_pk, phi, index=index, side=side).fraction
                      if spwm else 1.0)
-            p_rr = float(tp.recovery_loss(qrr, v, f_sw, share)) / n if qrr else 0.0
+            no_qrr = f"switch.{other}.diode_qrr not given: no recovery loss counted"
+            if qrr is None:
+                p_rr, rr_note = 0.0, no_qrr
+            else:
+                p_rr = out(np.where(arr(qrr) != 0,
+                                    arr(tp.recovery_loss(qrr, v, f_sw, share)) / n, 0.0))
+                rr_note = _texts(lambda q: "" if q else no_qrr, qrr)
             p_sw = tp.switching_loss(v, i_sw, t_sum, 0.0, f_sw) + tp.coss_loss(coss, v, f_sw) + p_rr
-            dead = max(ctx.q(f"timing.{s}.dead_time") for s in SIDES)
+            dead = np.maximum(*(ctx.q(f"timing.{s}.dead_time") for s in SIDES))
             # sine PWM: the device's diode carries I_pk/π on average over both dead intervals of
             # every carrier period; stepped waves: one dead interval per period at the edge current
             # a device's diode carries the dead times of the edges the other device of its leg
             # hard-switches (the same current for bipolar and unipolar; level-shifted legs load
             # the low side's diode with the high side's edges)
-            i_fw = (float(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
-                                                                side=other), n))
+            i_fw = (out(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
+                                                              side=other), n))
                     if spwm else i_sw / 2)
             p_d = tp.body_diode_loss(vf, i_fw, dead, f_sw)
-            ctx.publish(f"thermal.{side}.recovery_loss", p_rr,
-                        "" if qrr else f"switch.{other}.diode_qrr not given: no recovery loss counted")
+            ctx.publish(f"thermal.{side}.recovery_loss", p_rr, rr_note)
             ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)
             ctx.publish(f"thermal.{side}.diode_loss", p_d, FUNDAMENTAL)
 
@@ -139,33 +205,37 @@ def derive(ctx: Ctx) -> None:
             # T_j,max and never report a temperature beyond it
             sol = tp.solve_junction_temperature(ta, rth, i_dev, p_other=p_sw + p_d,
                                                 t_ceiling=tj_max, **model)
-            ctx.publish(f"thermal.{side}.runaway", not sol.converged)
-            if sol.converged:
-                ctx.publish(f"thermal.{side}.tj", sol.t_j)
-                ctx.publish(f"thermal.{side}.rds_hot", sol.rds_on)
-                ctx.publish(f"thermal.{side}.conduction_loss", sol.power - p_sw - p_d, FUNDAMENTAL)
-                ctx.publish(f"thermal.{side}.power", sol.power, FUNDAMENTAL)
+            # points with and without a steady state publish different quantities: in groups
+            converged = _split(sol.converged)
+            ctx.publish(f"thermal.{side}.runaway", not converged)
+            if converged:
+                ctx.publish(f"thermal.{side}.tj", out(sol.t_j))
+                ctx.publish(f"thermal.{side}.rds_hot", out(sol.rds_on))
+                ctx.publish(f"thermal.{side}.conduction_loss", out(sol.power - p_sw - p_d),
+                            FUNDAMENTAL)
+                ctx.publish(f"thermal.{side}.power", out(sol.power), FUNDAMENTAL)
                 ctx.publish(f"thermal.{side}.verdict", "a steady junction temperature exists")
-                solved = (sol.t_j, sol.power, tj_max)
+                solved = (out(sol.t_j), out(sol.power), tj_max)
             else:
-                ctx.publish(f"thermal.{side}.verdict",
-                            f"no steady junction temperature at or below T_j,max "
-                            f"({tj_max:g} °C): the junction either runs away or would settle "
-                            f"beyond its maximum, which destroys the part")
+                ctx.publish(f"thermal.{side}.verdict", _text_value(_texts(
+                    lambda t: f"no steady junction temperature at or below T_j,max "
+                              f"({t:g} °C): the junction either runs away or would settle "
+                              f"beyond its maximum, which destroys the part", tj_max)))
             t_lim = tj_max - TJ_MARGIN
             total = tp.largest_total_resistance(t_lim, ta, i_dev, p_other=p_sw + p_d, **model)
             ctx.publish(f"thermal.{side}.rth_total_max", total,
                         f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")
             jc = ctx.v(f"{sw}.rth_jc")
             if jc is not None:
-                ctx.publish(f"thermal.{side}.rth_sa_max", total - jc - (ctx.v(f"{sw}.rth_cs") or 0.0),
+                ctx.publish(f"thermal.{side}.rth_sa_max",
+                            out(total - jc - _or(ctx.v(f"{sw}.rth_cs"), 0.0)),
                             f"for T_j ≤ T_j,max − {TJ_MARGIN:g} °C")
         if solved is not None:
             with ctx.section(f"thermal.{side}.tj_peak"):
                 _peak(ctx, side, kind, *solved)
 
 
-def _peak(ctx: Ctx, side: str, kind: str, t_mean: float, power: float, tj_max: float) -> None:
+def _peak(ctx: Ctx, side: str, kind: str, t_mean: Any, power: Any, tj_max: Any) -> None:
     """Publish the peak junction temperature over the output cycle, where Z_th is given."""
     sw = f"switch.{side}"
     tau, jc = ctx.v(f"{sw}.zth_tau"), ctx.v(f"{sw}.rth_jc")
@@ -175,19 +245,22 @@ def _peak(ctx: Ctx, side: str, kind: str, t_mean: float, power: float, tj_max: f
     share = 0.5
     if kind == "quasi_square":
         # the device's on-share of the period, from the switching pattern
-        on = pattern.on_share(kind, notch=ctx.v("modulation.notch_angle") or 0.0,
+        on = pattern.on_share(kind, notch=_or(ctx.v("modulation.notch_angle"), 0.0),
                               zero_state=ctx.v("modulation.zero_state"))
-        share = float(max(on[f"a_{side}"], on[f"b_{side}"]))
+        share = out(np.maximum(on[f"a_{side}"], on[f"b_{side}"]))
     # the whole loss taken as one pulse while the device conducts (conservative: a sinusoid's
     # loss is spread over the half cycle, and a quasi-square low side conducts in two parts)
-    swing = float(tp.pulse_temperature_swing(power / share, jc, tau, share * period, period))
+    swing = out(tp.pulse_temperature_swing(power / share, jc, tau, share * period, period))
     peak = t_mean + swing
-    if peak > tj_max:
+    # points whose peak passes T_j,max and points whose peak does not: in groups
+    if _split(peak > tj_max):
         # never shown as a temperature: the part does not survive it
         ctx.publish(f"thermal.{side}.runaway", True)
-        ctx.publish(f"thermal.{side}.verdict",
-                    f"a junction that peaks above T_j,max ({tj_max:g} °C) in every output cycle "
-                    f"(single-pole Z_th,jc, {render(tau, 's')}), which destroys the part")
+        ctx.publish(f"thermal.{side}.verdict", _text_value(_texts(
+            lambda t, z: f"a junction that peaks above T_j,max ({t:g} °C) in every output cycle "
+                         f"(single-pole Z_th,jc, {render(z, 's')}), which destroys the part",
+            tj_max, tau)))
         return
-    ctx.publish(f"thermal.{side}.tj_peak", peak,
-                f"mean {t_mean:.3g} °C plus {swing:.3g} K swing over {share:.0%} of the period")
+    ctx.publish(f"thermal.{side}.tj_peak", peak, _texts(
+        lambda m, w, s: f"mean {m:.3g} °C plus {w:.3g} K swing over {s:.0%} of the period",
+        t_mean, swing, share))

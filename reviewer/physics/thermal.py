@@ -15,6 +15,12 @@ iterates T ← T_a + θ·P(T) from ambient. P rises with T, so the iterates rise
 settle on the lowest (stable) solution when there is one; when there is none the temperature
 runs away, and the function says so in its result rather than raising.
 
+Every function but :func:`switch_frequency` takes floats or numpy arrays (one element per
+corner or sample) and returns a float for scalar inputs; the two iterative ones
+(:func:`solve_junction_temperature`, :func:`largest_total_resistance`) iterate on the whole
+array, each element stopping by the scalar rule, so that an element is what a scalar call gives,
+to the last bit.
+
 Load currents per switch (:func:`switch_currents`) assume a sinusoidal load current of peak
 I_pk and lag φ behind the bridge voltage's fundamental (the fundamental-only estimate until
 harmonics are known), and MOSFET channels that conduct in both directions while on (so the
@@ -39,19 +45,23 @@ from typing import Literal
 import numpy as np
 
 from reviewer.physics import pattern
+from reviewer.physics.arrays import arr as _a
+from reviewer.physics.arrays import is_array
+from reviewer.physics.arrays import out as _out
 
 RdsModel = Literal["exponential", "linear"]
 ModulationKind = Literal["square", "quasi_square", "spwm_bipolar", "spwm_unipolar",
                          "spwm_level_shifted"]
 
 
-def _a(x) -> np.ndarray:
-    return np.asarray(x, dtype=float)
+def _square(x) -> np.ndarray:
+    """x² element by element as Python's ``float ** 2`` gives it (the C library's pow).
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
+    numpy's ``x ** 2`` is x·x, which differs from pow(x, 2) in the last bit for some x; the
+    fixed point's stopping rule would see that, so the scalar and the array evaluations square
+    the current the same way, to the last bit."""
+    a = _a(x)
+    return np.array([v ** 2 for v in a.ravel().tolist()], dtype=float).reshape(a.shape)
 
 
 # ---------------------------------------------------------------- on-resistance and temperature
@@ -237,11 +247,12 @@ def gate_loss_share(p_gate, r_part, r_loop):
 
 # --------------------------------------------------------------------- thermal resistance
 
-def thermal_resistance(rth_jc=None, rth_cs=None, rth_sa=None, rth_ja=None) -> float:
+def thermal_resistance(rth_jc=None, rth_cs=None, rth_sa=None, rth_ja=None):
     """Junction-to-ambient thermal resistance of one device [K/W].
 
     With a heatsink (``rth_sa`` given): θ_jc + θ_cs + θ_sa (θ_cs 0 when not given). Without:
-    θ_ja. Raises ValueError when neither path can be formed.
+    θ_ja. Raises ValueError when neither path can be formed (which of them is given is the
+    same at every element of an array call: only the values vary).
 
     References
     ----------
@@ -250,9 +261,9 @@ def thermal_resistance(rth_jc=None, rth_cs=None, rth_sa=None, rth_ja=None) -> fl
     if rth_sa is not None:
         if rth_jc is None:
             raise ValueError("a heatsink path needs the junction-to-case resistance")
-        return float(rth_jc + (rth_cs or 0.0) + rth_sa)
+        return _out(_a(rth_jc) + (0.0 if rth_cs is None else _a(rth_cs)) + _a(rth_sa))
     if rth_ja is not None:
-        return float(rth_ja)
+        return _out(rth_ja)
     raise ValueError("give junction-to-ambient, or junction-to-case and sink-to-ambient")
 
 
@@ -268,30 +279,65 @@ def junction_temperature(t_ambient, power, rth):
 
 @dataclass(frozen=True)
 class JunctionSolution:
-    """Result of the electro-thermal solution for one device.
+    """Result of the electro-thermal solution for one device, or for each element of arrays.
 
     ``converged`` is False for thermal runaway: ``t_j``, ``rds_on`` and ``power`` are then
-    None and ``message`` says what happened.
+    None and ``message`` says what happened. For array inputs every field is an array of the
+    inputs' broadcast shape (``converged`` bool, ``iterations`` int, ``t_j``, ``rds_on`` and
+    ``power`` NaN where not converged) and ``message`` a list of texts, one per element in
+    flattened order.
     """
 
-    converged: bool
-    t_j: float | None
-    rds_on: float | None
-    power: float | None
-    iterations: int
-    message: str
+    converged: bool | np.ndarray
+    t_j: float | np.ndarray | None
+    rds_on: float | np.ndarray | None
+    power: float | np.ndarray | None
+    iterations: int | np.ndarray
+    message: str | list[str]
 
 
-def solve_junction_temperature(t_ambient: float, rth: float, i_rms: float, rds_ref: float,
-                               t_ref: float, hot_factor: float, t_hot: float,
-                               p_other: float = 0.0, model: RdsModel = "exponential",
+def _runaway_message(ceiling: float, steps: int, passed: bool, max_iter: int) -> str:
+    if passed:
+        return (f"no solution: thermal runaway (junction passes {ceiling:g} °C after {steps} "
+                f"steps)")
+    return ("no solution: thermal runaway (the junction temperature did not settle within "
+            f"{max_iter} steps: at the edge of runaway)")
+
+
+def _solve_one(t_ambient: float, rth: float, i_rms: float, rds_ref: float, t_ref: float,
+               hot_factor: float, t_hot: float, p_other: float, t_ceiling: float,
+               model: RdsModel, tol: float, max_iter: int) -> JunctionSolution:
+    """:func:`solve_junction_temperature` of floats: the scalar iteration."""
+    t = t_ambient
+    i2 = i_rms ** 2
+    for n in range(1, max_iter + 1):
+        r = float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model))
+        p = i2 * r + p_other
+        t_new = t_ambient + rth * p
+        if not math.isfinite(t_new) or t_new > t_ceiling:
+            return JunctionSolution(False, None, None, None, n,
+                                    _runaway_message(t_ceiling, n, True, max_iter))
+        if abs(t_new - t) < tol:
+            r = float(rds_on_at(t_new, rds_ref, t_ref, hot_factor, t_hot, model))
+            return JunctionSolution(True, t_new, r, i2 * r + p_other, n, "converged")
+        t = t_new
+    return JunctionSolution(False, None, None, None, max_iter,
+                            _runaway_message(t_ceiling, max_iter, False, max_iter))
+
+
+def solve_junction_temperature(t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor, t_hot,
+                               p_other=0.0, model: RdsModel = "exponential",
                                tol: float = 1e-6, max_iter: int = 20000,
-                               t_ceiling: float = 1000.0) -> JunctionSolution:
+                               t_ceiling=1000.0) -> JunctionSolution:
     """Junction temperature with R_DS(on) evaluated at it, by fixed-point iteration.
 
     Solves T = T_a + θ·(I_rms²·R(T) + P_other), starting at T_a. The iterates rise
     monotonically; they stop when a step is below ``tol`` (converged) or when T passes
-    ``t_ceiling`` or ``max_iter`` is spent (no solution: thermal runaway).
+    ``t_ceiling`` or ``max_iter`` is spent (no solution: thermal runaway). Every argument but
+    ``model``, ``tol`` and ``max_iter`` may be an array: the whole array is iterated at once,
+    each element stopping by the scalar rule at its own step (a mask of the elements still
+    iterating), so that each element is what the scalar call gives, to the last bit; scalars
+    iterate on floats.
 
     Parameters
     ----------
@@ -309,40 +355,59 @@ def solve_junction_temperature(t_ambient: float, rth: float, i_rms: float, rds_r
     Fixed-point iteration of a monotone map (Banach; e.g. R. L. Burden and J. D. Faires,
     *Numerical Analysis*, 9th ed., §2.2); electro-thermal loop: Baliga 2008 §6.7.
     """
-    t = float(t_ambient)
-    i2 = float(i_rms) ** 2
-    for n in range(1, max_iter + 1):
-        r = float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model))
-        p = i2 * r + p_other
-        t_new = t_ambient + rth * p
-        if not math.isfinite(t_new) or t_new > t_ceiling:
-            return JunctionSolution(False, None, None, None, n,
-                                    f"no solution: thermal runaway (junction passes "
-                                    f"{t_ceiling:g} °C after {n} steps)")
-        if abs(t_new - t) < tol:
-            r = float(rds_on_at(t_new, rds_ref, t_ref, hot_factor, t_hot, model))
-            return JunctionSolution(True, t_new, r, i2 * r + p_other, n, "converged")
-        t = t_new
-    return JunctionSolution(False, None, None, None, max_iter,
-                            "no solution: thermal runaway (the junction temperature did not "
-                            f"settle within {max_iter} steps: at the edge of runaway)")
+    numbers = (t_ambient, rth, i_rms, rds_ref, t_ref, hot_factor, t_hot, p_other, t_ceiling)
+    if not is_array(*numbers):
+        return _solve_one(*(float(x) for x in numbers), model, tol, max_iter)
+    given = np.broadcast_arrays(*(_a(x) for x in numbers))
+    shape = given[0].shape
+    ta, th, i, rr, tr, k, thot, po, ceil = (g.ravel() for g in given)
+    i2 = _square(i)
+    size = ta.size
+    converged = np.zeros(size, dtype=bool)
+    passed = np.zeros(size, dtype=bool)          # went beyond the ceiling (or not finite)
+    steps = np.full(size, max_iter, dtype=int)
+    t_j = np.full(size, np.nan)
+    # the elements still iterating, and their working copies
+    live = np.arange(size)
+    t = ta.copy()
+    w = [ta, th, i2, rr, tr, k, thot, po, ceil]
+    with np.errstate(invalid="ignore", over="ignore"):
+        for n in range(1, max_iter + 1):
+            wta, wth, wi2, wrr, wtr, wk, wthot, wpo, wceil = w
+            p = wi2 * _a(rds_on_at(t, wrr, wtr, wk, wthot, model)) + wpo
+            t_new = wta + wth * p
+            # the scalar rule, per element: past the ceiling (or not finite) first, then settled
+            over = ~np.isfinite(t_new) | (t_new > wceil)
+            stop = over | (np.abs(t_new - t) < tol)
+            if stop.any():
+                done = stop & ~over
+                passed[live[over]] = True
+                converged[live[done]] = True
+                steps[live[stop]] = n
+                t_j[live[done]] = t_new[done]
+                keep = ~stop
+                live, t = live[keep], t_new[keep]
+                w = [x[keep] for x in w]
+                if live.size == 0:
+                    break
+            else:
+                t = t_new
+        r_j = _a(rds_on_at(t_j, rr, tr, k, thot, model))
+        p_j = i2 * r_j + po
+    messages = ["converged" if c else _runaway_message(float(x), int(s), bool(o), max_iter)
+                for c, x, s, o in zip(converged.tolist(), ceil.tolist(), steps.tolist(),
+                                      passed.tolist())]
+    return JunctionSolution(converged.reshape(shape), t_j.reshape(shape),
+                            np.where(converged, r_j, np.nan).reshape(shape),
+                            np.where(converged, p_j, np.nan).reshape(shape),
+                            steps.reshape(shape), messages)
 
 
-def largest_total_resistance(t_limit: float, t_ambient: float, i_rms: float, rds_ref: float,
-                             t_ref: float, hot_factor: float, t_hot: float,
-                             p_other: float = 0.0, model: RdsModel = "exponential") -> float:
-    """Largest junction-to-ambient resistance whose stable T_j stays at or below ``t_limit`` [K/W].
-
-    θ makes T a solution when θ = h(T) = (T − T_a)/P(T). The stable solution rises with θ until
-    h peaks (beyond that peak there is none: runaway), so the answer is the maximum of h over
-    [T_a, T_limit]: h(T_limit) if h still rises there, else the peak of h (found by bisection
-    on h' = 0, i.e. P(T) = (T − T_a)·P'(T)).
-
-    References
-    ----------
-    Inversion of T = T_a + θ·P(T); Mohan, Undeland & Robbins §29-2.
-    """
-    i2 = float(i_rms) ** 2
+def _largest_total_one(t_limit: float, t_ambient: float, i_rms: float, rds_ref: float,
+                       t_ref: float, hot_factor: float, t_hot: float, p_other: float,
+                       model: RdsModel) -> float:
+    """:func:`largest_total_resistance` of floats: the scalar bisection."""
+    i2 = i_rms ** 2
 
     def p(t):
         return i2 * float(rds_on_at(t, rds_ref, t_ref, hot_factor, t_hot, model)) + p_other
@@ -367,10 +432,48 @@ def largest_total_resistance(t_limit: float, t_ambient: float, i_rms: float, rds
     return (t_best - t_ambient) / p(t_best)
 
 
-def largest_sink_to_ambient(t_limit: float, t_ambient: float, rth_jc: float, rth_cs: float,
-                            i_rms: float, rds_ref: float, t_ref: float, hot_factor: float,
-                            t_hot: float, p_other: float = 0.0,
-                            model: RdsModel = "exponential") -> float:
+def largest_total_resistance(t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor, t_hot,
+                             p_other=0.0, model: RdsModel = "exponential"):
+    """Largest junction-to-ambient resistance whose stable T_j stays at or below ``t_limit`` [K/W].
+
+    θ makes T a solution when θ = h(T) = (T − T_a)/P(T). The stable solution rises with θ until
+    h peaks (beyond that peak there is none: runaway), so the answer is the maximum of h over
+    [T_a, T_limit]: h(T_limit) if h still rises there, else the peak of h (found by bisection
+    on h' = 0, i.e. P(T) = (T − T_a)·P'(T)); 0 where T_limit ≤ T_a. Arrays are bisected
+    element by element at once (the same 200 halvings as a scalar call, which works on floats).
+
+    References
+    ----------
+    Inversion of T = T_a + θ·P(T); Mohan, Undeland & Robbins §29-2.
+    """
+    numbers = (t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor, t_hot, p_other)
+    if not is_array(*numbers):
+        return _largest_total_one(*(float(x) for x in numbers), model)
+    given = np.broadcast_arrays(*(_a(x) for x in numbers))
+    t_lim, ta, i, rr, tr, k, thot, po = given
+    i2 = _square(i)
+
+    def p(t):
+        return i2 * _a(rds_on_at(t, rr, tr, k, thot, model)) + po
+
+    def dh_sign(t):
+        return p(t) - (t - ta) * i2 * _a(rds_on_slope(t, rr, tr, k, thot, model))
+
+    below = t_lim <= ta
+    rising = dh_sign(t_lim) >= 0
+    lo, hi = ta, t_lim
+    if (~below & ~rising).any():
+        for _ in range(200):
+            mid = 0.5 * (lo + hi)
+            up = dh_sign(mid) >= 0
+            lo, hi = np.where(up, mid, lo), np.where(up, hi, mid)
+    t_best = np.where(rising, t_lim, lo)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return _out(np.where(below, 0.0, (t_best - ta) / p(t_best)))
+
+
+def largest_sink_to_ambient(t_limit, t_ambient, rth_jc, rth_cs, i_rms, rds_ref, t_ref,
+                            hot_factor, t_hot, p_other=0.0, model: RdsModel = "exponential"):
     """Largest heatsink (sink-to-ambient) resistance that keeps T_j ≤ ``t_limit`` [K/W].
 
     θ_sa,max = θ_total,max − θ_jc − θ_cs with θ_total,max from :func:`largest_total_resistance`.
@@ -382,7 +485,7 @@ def largest_sink_to_ambient(t_limit: float, t_ambient: float, rth_jc: float, rth
     """
     total = largest_total_resistance(t_limit, t_ambient, i_rms, rds_ref, t_ref, hot_factor,
                                      t_hot, p_other, model)
-    return total - rth_jc - rth_cs
+    return _out(_a(total) - _a(rth_jc) - _a(rth_cs))
 
 
 def pulse_temperature_swing(p_on, rth, tau, t_on, period):
@@ -488,10 +591,10 @@ def switch_currents(modulation: ModulationKind, i_peak: float, phase: float = 0.
     c = pattern.conduction(modulation, i_peak, phase, index=index, notch=notch_angle,
                            zero_state=_ZERO_ALIASES[zero_state])  # type: ignore[arg-type]
     r, m = c.rms, c.mean
-    return SwitchCurrents(float(max(r["a_high"], r["b_high"])),
-                          float(max(abs(m["a_high"]), abs(m["b_high"]))),
-                          float(max(r["a_low"], r["b_low"])),
-                          float(max(abs(m["a_low"]), abs(m["b_low"]))))
+    return SwitchCurrents(_out(np.maximum(r["a_high"], r["b_high"])),
+                          _out(np.maximum(np.abs(m["a_high"]), np.abs(m["b_high"]))),
+                          _out(np.maximum(r["a_low"], r["b_low"])),
+                          _out(np.maximum(np.abs(m["a_low"]), np.abs(m["b_low"]))))
 
 
 def stepped_edge_current(i_peak, phase=0.0, notch_angle=0.0):
@@ -565,13 +668,13 @@ def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0
     ----------
     Holmes & Lipo 2003 ch. 3 and 5 (edge positions); mean of max(sin, 0) over a cycle is 1/π.
     """
-    i, phi, a = float(i_peak), float(phase), float(notch_angle)
+    i, phi, a = _a(i_peak), _a(phase), _a(notch_angle)
     if modulation == "square":
-        return float(square_edge_current(i, phi))
+        return _out(square_edge_current(i, phi))
     if modulation == "quasi_square":
-        return float(stepped_edge_current(i, phi, a))
+        return _out(stepped_edge_current(i, phi, a))
     if modulation in pattern.PWM_KINDS:
-        return float(pattern.hard_switching(modulation, i, phi, index=index, side=side).current)
+        return _out(pattern.hard_switching(modulation, i, phi, index=index, side=side).current)
     raise ValueError(f"unknown modulation {modulation!r}")
 
 
