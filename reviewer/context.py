@@ -43,6 +43,19 @@ class NeedsData(Exception):
         super().__init__(", ".join(needs))
 
 
+class SplitPoints(ValueError):
+    """Raised by a derive module in an array call whose points take paths that publish
+    different quantities (a solver that converges at some points and not at others, say).
+
+    ``groups`` gives each point a key (an array of shape (n,), bools say); the runner calls the
+    module again once for each group of points with equal keys, where the paths agree. A
+    ValueError, so that a runner that does not group points falls back to scalar calls."""
+
+    def __init__(self, groups: Any):
+        self.groups = groups
+        super().__init__("the points take different paths: evaluate them in groups")
+
+
 class Ctx:
     """What a derive module sees during one run: the design's values at this corner."""
 

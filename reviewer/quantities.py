@@ -31,7 +31,7 @@ import re
 from dataclasses import dataclass, field
 from typing import Any, Iterable
 
-from reviewer.context import SIDES, Ctx, Declared, NeedsData, declare
+from reviewer.context import SIDES, Ctx, Declared, NeedsData, SplitPoints, declare
 from reviewer.derive import MODULES
 from reviewer.units import Span
 
@@ -278,7 +278,7 @@ class Runner:
         for module, tree in zip(self.modules, self._trees):
             done = False
             if getattr(module, "VECTOR", False) and n > 1:
-                done = self._vector(module, ctxs, varying, reads, np)
+                done = self._vector(module, tree, ctxs, varying, reads, np)
             if not done:
                 for i, ctx in enumerate(ctxs):
                     reads[i].append(self._one(module, tree, ctx))
@@ -312,8 +312,8 @@ class Runner:
             ctx.notes.update(hit[2])
         return hit[3]
 
-    def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
-                np: Any) -> bool:
+    def _vector(self, module: Any, tree: _Node, ctxs: list[Ctx], varying: set[str],
+                reads: list, np: Any) -> bool:
         """One call of an opted-in module over every context; False to fall back to scalars."""
         n = len(ctxs)
         values = dict(ctxs[0]._values)
@@ -329,8 +329,10 @@ class Runner:
                 out[name] = col[0]
             elif all(_is_number(x) for x in col):
                 out[name] = np.array(col, dtype=float)
-            else:
-                return False
+            elif all(isinstance(x, bool) for x in col):
+                out[name] = np.array(col, dtype=bool)
+            else:  # texts that differ between points: an array of them (code that branches on
+                out[name] = np.array(col, dtype=object)  # one raises, and falls back)
         if any(c.missing != first.missing for c in ctxs):
             return False
         actx = Ctx(self.design, values, self.catalogue, typical=False)
@@ -340,6 +342,8 @@ class Runner:
         try:
             with np.errstate(all="ignore"):
                 module.derive(actx)
+        except SplitPoints as e:  # points on different paths: one array call per group
+            return self._groups(module, tree, ctxs, varying, reads, e.groups, np)
         except (TypeError, ValueError):  # code that is not array-safe: per-element fallback
             self.fallbacks += 1
             return False
@@ -347,6 +351,8 @@ class Runner:
         new = {k: v for k, v in actx.out.items() if k not in before}
         got = frozenset((kind, name) for kind, name, _ in actx.reads)
         self.read_fields.update(name for kind, name in got if kind == "v")
+        # what this call marked missing (taken before the loop, which updates ``first`` too)
+        gone = {k: v for k, v in actx.missing.items() if k not in first.missing}
         for i, c in enumerate(ctxs):
             for k, v in new.items():
                 if isinstance(v, np.ndarray) and v.shape == (n,):
@@ -356,9 +362,25 @@ class Runner:
                 else:
                     x = v
                 c.out[k] = x
-            c.missing.update({k: v for k, v in actx.missing.items() if k not in first.missing})
-            c.notes.update({k: _element(v, i, n) for k, v in actx.notes.items()})
+            c.missing.update(gone)
+            c.notes.update({k: t for k, v in actx.notes.items() if (t := _element(v, i, n))})
             reads[i].append(got)
+        return True
+
+    def _groups(self, module: Any, tree: _Node, ctxs: list[Ctx], varying: set[str],
+                reads: list, groups: Any, np: Any) -> bool:
+        """The module again over each group of points with equal keys (see :class:`SplitPoints`);
+        a group of one point is a scalar call."""
+        keys = np.asarray(groups).reshape(-1).tolist()
+        if len(keys) != len(ctxs) or len(set(keys)) < 2:  # no split: not array-safe after all
+            self.fallbacks += 1
+            return False
+        for key in dict.fromkeys(keys):
+            at = [i for i, k in enumerate(keys) if k == key]
+            sub, part = [ctxs[i] for i in at], [reads[i] for i in at]
+            if len(sub) == 1 or not self._vector(module, tree, sub, varying, part, np):
+                for ctx, r in zip(sub, part):
+                    r.append(self._one(module, tree, ctx))
         return True
 
     # dependencies ---------------------------------------------------------------------------
