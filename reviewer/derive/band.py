@@ -46,7 +46,7 @@ def source_resistance(ctx: Ctx) -> float | None:
         return None
     length, area = ctx.v("wiring.length"), ctx.v("wiring.size")
     if length is not None and area is not None:
-        r += wire.conductor_resistance(2 * length, area)
+        r = r + wire.conductor_resistance(2 * length, area)
     return r
 
 

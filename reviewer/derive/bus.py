@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 
 from reviewer.physics import bus
+from reviewer.physics.arrays import hypot
 from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
@@ -30,7 +31,7 @@ def power_factor(ctx: Ctx) -> float:
         return ctx.need("load.power_factor")
     if kind == "r_l":
         r, l_ = ctx.need("load.resistance", "load.inductance")
-        return r / math.hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
+        return r / hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
     return 1.0
 
 
