@@ -15,8 +15,12 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from reviewer.derive.bus import power_factor
+from reviewer.derive.paths import each
 from reviewer.physics import band, bus, wire
+from reviewer.physics.arrays import or_default, out
 from reviewer.context import Ctx, NeedsData, declare
 
 QUANTITIES = declare(
@@ -36,6 +40,9 @@ UNFILTERED_RECTIFIER_RIPPLE = 0.48
 """Rms ripple over the mean of an unfiltered full-wave rectifier, √(π²/8 − 1) ≈ 0.483 [unitless]
 (Fourier series of |sin|; Mohan, Undeland & Robbins 2003, ch. 5)."""
 
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`."""
+
 PWM_KINDS = ("spwm_bipolar", "spwm_unipolar", "spwm_level_shifted")
 
 
@@ -46,7 +53,7 @@ def source_resistance(ctx: Ctx) -> float | None:
         return None
     length, area = ctx.v("wiring.length"), ctx.v("wiring.size")
     if length is not None and area is not None:
-        r += wire.conductor_resistance(2 * length, area)
+        r = r + wire.conductor_resistance(2 * length, area)
     return r
 
 
@@ -61,8 +68,8 @@ def derive(ctx: Ctx) -> None:
     rms_2f = sw_pp = 0.0
     notes: list[str] = []
     if c is not None:
-        c_total = c + (ctx.v("capacitors.local") or 0.0)
-        esr = ctx.v("capacitors.esr") or 0.0
+        c_total = c + or_default(ctx.v("capacitors.local"), 0.0)
+        esr = or_default(ctx.v("capacitors.esr"), 0.0)
         rectifier = kind == "rectified_mains"
         r_split = math.inf if rectifier else (0.0 if r_s is None else r_s)
         try:
@@ -89,11 +96,12 @@ def derive(ctx: Ctx) -> None:
         peak, peak_note = band.dc_peak(v_max, ripple), "highest bus plus the crest of the given ripple"
         if c is not None:
             computed = band.bus_peak(v_max, rms_2f, sw_pp)
-            if computed > peak:
-                peak, peak_note = computed, "highest bus + " + "; ".join(notes) + (
-                    " (more than the given source.ripple)")
-            total_rms = math.sqrt(rms_2f**2 + (sw_pp / (2 * math.sqrt(3))) ** 2)
-            ripple = max(ripple, band.ripple_fraction(total_rms, v_min))
+            more = computed > peak  # per point in an array call
+            peak_note = each(lambda m: "highest bus + " + "; ".join(notes) + (
+                " (more than the given source.ripple)") if m else peak_note, more)
+            peak = out(np.where(more, computed, peak))
+            total_rms = out(np.sqrt(rms_2f**2 + (sw_pp / (2 * math.sqrt(3))) ** 2))
+            ripple = out(np.maximum(ripple, band.ripple_fraction(total_rms, v_min)))
             note = "the larger of the given source.ripple and the computed ripple"
     elif c is None:
         if kind in ("rectified_mains", "other"):
@@ -105,7 +113,7 @@ def derive(ctx: Ctx) -> None:
                                  "taken as ripple-free")
         peak, peak_note = band.dc_peak(v_max, ripple), note
     else:
-        total_rms = math.sqrt(rms_2f**2 + (sw_pp / (2 * math.sqrt(3))) ** 2)
+        total_rms = out(np.sqrt(rms_2f**2 + (sw_pp / (2 * math.sqrt(3))) ** 2))
         ripple = band.ripple_fraction(total_rms, v_min)
         note = "computed: " + "; ".join(notes)
         peak, peak_note = band.bus_peak(v_max, rms_2f, sw_pp), "highest bus + " + "; ".join(notes)
@@ -117,20 +125,26 @@ def derive(ctx: Ctx) -> None:
 
     out_max, out_note = _output_max(ctx, v_max)
     ctx.publish("band.output_max", out_max, out_note)
-    bus_beyond = bool(peak > limit)
+    bus_beyond = _flag(peak > limit)
     ctx.publish("band.bus_beyond_elv", bus_beyond)
-    ctx.publish("band.beyond_elv", bus_beyond or bool(out_max > band.ELV_AC_RMS))
+    ctx.publish("band.beyond_elv", _flag(np.logical_or(bus_beyond, out_max > band.ELV_AC_RMS)))
+
+
+def _flag(x: object) -> object:
+    """A flag: a bool, or an array of bools in an array call (one per point)."""
+    a = np.asarray(x, dtype=bool)
+    return bool(a) if a.ndim == 0 else a
 
 
 def _output_max(ctx: Ctx, v_max: float) -> tuple[float, str]:
     """The largest RMS output the design can produce, and how it was found."""
     target = ctx.v("output.v_rms")
     if bool(ctx.v("modulation.regulated")) and target is not None:
-        tol = ctx.v("output.v_tolerance") or 0.0
+        tol = or_default(ctx.v("output.v_tolerance"), 0.0)
         return (1 + tol) * target, "closed loop: the upper end of the output tolerance"
     if ctx.has("waveform.output_at_bus_max_no_load"):
         loaded = ctx.q("waveform.output_at_bus_max")
-        return (max(loaded, ctx.q("waveform.output_at_bus_max_no_load")),
+        return (out(np.maximum(loaded, ctx.q("waveform.output_at_bus_max_no_load"))),
                 "open loop: computed at the highest bus, the larger of loaded and unloaded")
     ratio = ctx.q("op.transformer_ratio")
     return (v_max * ratio, "open loop, no spectrum computed: the bridge's largest RMS (a square "

@@ -2,9 +2,13 @@
 
 from __future__ import annotations
 
+import functools
 import math
 
+import numpy as np
+
 from reviewer.physics import bus
+from reviewer.physics.arrays import hypot, or_default, out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
@@ -19,6 +23,9 @@ QUANTITIES = declare(
     ("bus.local_ripple", "V", "Dip across the local capacitor through one switching edge"),
 )
 
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`."""
+
 PWM_KINDS = {"spwm_bipolar": "bipolar", "spwm_unipolar": "unipolar",
              "spwm_level_shifted": "unipolar"}
 
@@ -30,7 +37,7 @@ def power_factor(ctx: Ctx) -> float:
         return ctx.need("load.power_factor")
     if kind == "r_l":
         r, l_ = ctx.need("load.resistance", "load.inductance")
-        return r / math.hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
+        return r / hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
     return 1.0
 
 
@@ -65,7 +72,7 @@ def derive(ctx: Ctx) -> None:
                      else "shared with the source by impedance"))
     if pwm:
         with ctx.section("bus.switching_voltage_ripple"):
-            c = ctx.need("capacitors.bulk") + (ctx.v("capacitors.local") or 0.0)
+            c = ctx.need("capacitors.bulk") + or_default(ctx.v("capacitors.local"), 0.0)
             ctx.publish("bus.switching_voltage_ripple",
                         bus.local_voltage_step(ctx.q("op.load_current_peak"),
                                                ctx.q("op.switching_frequency"), c),
@@ -75,7 +82,7 @@ def derive(ctx: Ctx) -> None:
                  for k in ("rise_time", "fall_time", "tail") if ctx.has(f"switching.{s}.{k}")]
         if not edges:
             raise NeedsData("switch.high.qgd", "switch.low.qgd")
-        t_edge = max(edges)
+        t_edge = out(functools.reduce(np.maximum, edges))  # the longest, per point
         ctx.publish("bus.edge_time", t_edge)
         ctx.publish("bus.local_ripple",
                     bus.edge_voltage_step(ctx.q("op.load_current_peak"), t_edge,

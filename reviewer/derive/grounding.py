@@ -2,7 +2,12 @@
 
 from __future__ import annotations
 
+import functools
+
+import numpy as np
+
 from reviewer.physics import grounding
+from reviewer.physics.arrays import out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
 
 QUANTITIES = declare(
@@ -10,6 +15,9 @@ QUANTITIES = declare(
     ("grounding.bounce", "V", "Ground bounce on the shared return, L_common · di/dt"),
     ("grounding.common_inductance_max", "H", "Largest shared ground inductance within the noise margin"),
 )
+
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`."""
 
 
 def _edge(ctx: Ctx) -> float:
@@ -26,7 +34,7 @@ def _edge(ctx: Ctx) -> float:
                 needs.extend(ctx.missing.get(name, ()))
     if needs or not times:
         raise NeedsData(*(needs or ("switch.high.qgd", "switch.low.qgd")))
-    return min(times)
+    return out(functools.reduce(np.minimum, times))  # the fastest, per point
 
 
 def derive(ctx: Ctx) -> None:

@@ -10,8 +10,16 @@ class II is assumed. The working and system voltages are the largest the design 
 
 from __future__ import annotations
 
+import numpy as np
+
+from reviewer.derive.paths import each, one_path
 from reviewer.physics import spacing
+from reviewer.physics.arrays import or_default, out
 from reviewer.context import Ctx, declare
+
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`;
+points on either side of the extra-low-voltage band are evaluated in groups (:func:`one_path`)."""
 
 QUANTITIES = declare(
     ("isolation.protective_class", "", "Protective class used (IEC 61140)", "text"),
@@ -31,7 +39,7 @@ QUANTITIES = declare(
 
 
 def derive(ctx: Ctx) -> None:
-    beyond = bool(ctx.q("band.beyond_elv"))
+    beyond = bool(one_path(ctx.q("band.beyond_elv")))
     declared = ctx.v("isolation.protective_class")
     pclass = declared or "II"
     ctx.publish("isolation.protective_class", pclass,
@@ -52,18 +60,18 @@ def derive(ctx: Ctx) -> None:
                 f"class {pclass}: double or reinforced to accessible parts that are not earthed")
     ctx.publish("isolation.grade_ok",
                 spacing.insulation_sufficient(ctx.v("isolation.insulation"), required))
-    ctx.publish("isolation.shunt_crosses", bool(ctx.q("band.bus_beyond_elv"))
+    ctx.publish("isolation.shunt_crosses", bool(one_path(ctx.q("band.bus_beyond_elv")))
                 and ctx.v("grounding.shunt") in ("low_side", "high_side"))
     if not beyond:
         return
 
     given = ctx.v("isolation.working_voltage")
-    produced = max(ctx.q("band.output_max"), ctx.q("band.bus_peak"))
-    working = produced if given is None else max(given, produced)
+    produced = out(np.maximum(ctx.q("band.output_max"), ctx.q("band.bus_peak")))
+    working = produced if given is None else out(np.maximum(given, produced))
     ctx.publish("isolation.working_voltage", working,
                 "the larger of the largest output rms and the bus peak" if given is None else
-                "as given" if given >= produced else
-                "the design produces more than the given working voltage: the larger is used")
+                each(lambda g, p: "as given" if g >= p else "the design produces more than the "
+                     "given working voltage: the larger is used", given, produced))
     system = produced
     ctx.publish("isolation.system_voltage", system,
                 "the largest output (or bus) voltage taken as the system voltage for Table F.1")
@@ -79,7 +87,7 @@ def derive(ctx: Ctx) -> None:
         coat_note = ("; coated board: pollution degree 1 under the coating (IEC 60664-3 type 1 "
                      "protection, from memory)" if coated else "")
         clearance = spacing.clearance_required(system, category, pd_used, grade,
-                                               ctx.v("isolation.altitude") or 0.0)
+                                               or_default(ctx.v("isolation.altitude"), 0.0))
         ctx.publish("isolation.clearance_needed", clearance,
                     f"{grade} insulation, overvoltage category {category}, pollution degree "
                     f"{pd_used}{coat_note}")

@@ -5,9 +5,16 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from reviewer.derive.bus import power_factor
+from reviewer.derive.paths import each, one_path
 from reviewer.physics import bus, spacing
+from reviewer.physics.arrays import or_default, out
 from reviewer.context import Ctx, declare
+
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`."""
 
 PWM = {"spwm_bipolar": "bipolar", "spwm_unipolar": "unipolar", "spwm_level_shifted": "unipolar"}
 
@@ -26,7 +33,8 @@ QUANTITIES = declare(
 
 def derive(ctx: Ctx) -> None:
     rise, oz, layer = ctx.v("layout.temp_rise"), ctx.v("layout.copper_oz"), ctx.v("layout.layer")
-    note = f"{oz:g} oz copper, {layer} layer, {rise:g} °C rise: an estimate, IPC-2152 gives better data"
+    note = each(lambda o, r: f"{o:g} oz copper, {layer} layer, {r:g} °C rise: an estimate, IPC-2152 "
+                "gives better data", oz, rise)
     with ctx.section("layout.output.current", "layout.output.trace_width", "layout.bus.current",
                      "layout.bus.trace_width"):
         if ctx.has("waveform.bridge_current_rms"):
@@ -39,7 +47,7 @@ def derive(ctx: Ctx) -> None:
         ctx.publish("layout.output.trace_width", spacing.trace_width(i_out, rise, oz, layer), note)
         kind = ctx.v("modulation.kind")
         if kind in PWM:
-            i_bus = bus.input_current_rms(i_out, min(ctx.need("modulation.index"), 1.0),
+            i_bus = bus.input_current_rms(i_out, out(np.minimum(ctx.need("modulation.index"), 1.0)),
                                           power_factor(ctx), PWM[kind])
             bus_how = ("the chopped bridge input current of sine PWM, "
                        + ("two-level: its RMS is the output current's" if PWM[kind] == "bipolar"
@@ -51,12 +59,12 @@ def derive(ctx: Ctx) -> None:
         ctx.publish("layout.bus.current", i_bus, bus_how)
         ctx.publish("layout.bus.trace_width", spacing.trace_width(i_bus, rise, oz, layer), note)
 
-    column = spacing.ipc2221_column(layer, bool(ctx.v("isolation.coating")),
-                                    ctx.v("isolation.altitude") or 0.0)
+    column = one_path(spacing.ipc2221_column(layer, bool(ctx.v("isolation.coating")),
+                                             or_default(ctx.v("isolation.altitude"), 0.0)))
     peak = ctx.q("band.bus_peak")
     ctx.publish("layout.bus.spacing", spacing.ipc2221_spacing(peak, column),
                 f"column {column} at the bus peak")
-    out_peak = max(peak, ctx.q("band.output_max") * math.sqrt(2))
+    out_peak = out(np.maximum(peak, ctx.q("band.output_max") * math.sqrt(2)))
     ctx.publish("layout.output.voltage", out_peak,
                 "the larger of the bus peak (bridge-side nets) and the largest output's peak "
                 "(load side)")

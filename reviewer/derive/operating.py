@@ -6,7 +6,11 @@ import math
 
 from reviewer import tables
 from reviewer.physics import band
+from reviewer.physics.arrays import hypot, or_default
 from reviewer.context import Ctx, declare
+
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`."""
 
 QUANTITIES = declare(
     ("op.bus_min", "V", "Lowest bus voltage in service"),
@@ -62,7 +66,7 @@ def derive(ctx: Ctx) -> None:
     ctx.publish("op.bus_max_assumed", assumed)
     ctx.publish("op.bus_max_known", ctx.v("source.v_max") is not None
                 or ctx.v("source.chemistry") in CELL_CHEMISTRIES)
-    ratio = ctx.v("output.transformer_ratio") or 1.0
+    ratio = or_default(ctx.v("output.transformer_ratio"), 1.0)
     ctx.publish("op.transformer_ratio", ratio)
 
     with ctx.section("op.switching_frequency"):
@@ -89,7 +93,7 @@ def derive(ctx: Ctx) -> None:
             i_load = p / v_out
         elif kind == "r_l":
             r, l_ = ctx.need("load.resistance", "load.inductance")
-            z = math.hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
+            z = hypot(r, 2 * math.pi * ctx.need("output.frequency") * l_)
             i_load = v_out / z
             p = i_load**2 * r
         else:

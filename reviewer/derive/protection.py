@@ -4,10 +4,21 @@ overcurrent threshold, lead drop (§3.8)."""
 
 from __future__ import annotations
 
+from typing import Any
+
+import numpy as np
+
 from reviewer.derive.band import source_resistance
 from reviewer.derive.bus import power_factor
+from reviewer.derive.paths import each, one_path
 from reviewer.physics import bus, protection, wire
+from reviewer.physics.arrays import or_default, out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
+
+VECTOR = True
+"""Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`; the
+table lookups are per element, and points on different rows of a table's branches (a conductor
+inside or outside Table 310.16, say) are evaluated in groups (:func:`one_path`)."""
 
 QUANTITIES = declare(
     ("protection.has_fuse", "", "A fuse is fitted in the supply lead", "flag"),
@@ -64,9 +75,9 @@ def derive(ctx: Ctx) -> None:  # noqa: C901 - one pass over the protection quant
                 note = ("all of the 2·f ripple in the lead; a rectifier's own charging pulses "
                         "load it more: check the AC-side current")
         else:
-            c_total = c + (ctx.v("capacitors.local") or 0.0)
+            c_total = c + or_default(ctx.v("capacitors.local"), 0.0)
             share = bus.source_share(r_s, 2 * ctx.need("output.frequency"), c_total,
-                                     ctx.v("capacitors.esr") or 0.0)
+                                     or_default(ctx.v("capacitors.esr"), 0.0))
             note = "the 2·f ripple split between source and capacitors by their impedances"
         ctx.publish("protection.supply_ripple_share", share, note)
         ctx.publish("protection.supply_current_rms", bus.supply_lead_rms(i_dc, share * i_2f),
@@ -80,17 +91,16 @@ def derive(ctx: Ctx) -> None:  # noqa: C901 - one pass over the protection quant
         if given is not None:
             factor, fnote = given, "the fuse maker's factor, as given"
         else:
-            try:
-                factor = protection.fuse_ambient_factor(standard, ambient)
-            except ValueError:
-                raise NeedsData("fuse.ambient_factor") from None
-            fnote = (f"typical rerating at {ambient:g} °C for '{standard}' fuses "
-                     "(reviewer/tables/fuse_ambient.toml, from memory)")
+            if not one_path(protection.fuse_ambient_covered(ambient)):
+                raise NeedsData("fuse.ambient_factor")
+            factor = protection.fuse_ambient_factor(standard, ambient)
+            fnote = each(lambda a: f"typical rerating at {a:g} °C for '{standard}' fuses "
+                         "(reviewer/tables/fuse_ambient.toml, from memory)", ambient)
         ctx.publish("protection.fuse_ambient_factor", factor, fnote)
         limit = protection.fuse_loading_limit(standard) * factor
-        ctx.publish("protection.fuse_limit", limit,
-                    f"the limit for fuse standard '{standard}' (reviewer/tables/fuse_loading.toml)"
-                    f" × the ambient factor {factor:.3g}")
+        ctx.publish("protection.fuse_limit", limit, each(
+            lambda f: f"the limit for fuse standard '{standard}' (reviewer/tables/fuse_loading.toml)"
+                      f" × the ambient factor {f:.3g}", factor))
         i_rms = ctx.q("protection.supply_current_rms")
         ctx.publish("protection.fuse_min", i_rms / limit)
         rating = ctx.need("fuse.rating")
@@ -121,19 +131,22 @@ def _wire(ctx: Ctx, has_fuse: bool) -> None:
         area = ctx.need("wiring.size")
         amp = protection.wire_ampacity(area, temp)
         limit = protection.wire_max_protection(area, temp)
-        small = protection.small_conductor_gauge(area) if amp is None else None
-        if amp is not None and limit is not None:
+        # the branch each point takes (arrays give NaN where the scalar lookup gives None)
+        listed = one_path(_given(amp) & _given(limit))
+        small = one_path(protection.small_conductor_gauge(area)) if not listed else None
+        if listed:
             ambient = ctx.v("environment.ambient")
             factor = protection.ampacity_ambient_factor(ambient, temp)
-            if factor is None:
+            if not one_path(_given(factor)):
                 ctx.publish("protection.wire_table", "outside the table: the ambient is above "
                             "NEC Table 310.15(B)(1)(1)")
                 raise NeedsData("environment.ambient")
             amp_c = amp * factor
-            ctx.publish("protection.wire_ampacity", amp_c,
-                        f"Table 310.16 {amp:g} A × {factor:g} for {ambient:g} °C ambient (Table "
-                        "310.15(B)(1)(1), from memory), up to three current-carrying conductors")
-            ctx.publish("protection.wire_max_fuse", min(limit, amp_c),
+            ctx.publish("protection.wire_ampacity", amp_c, each(
+                lambda a, f, t: f"Table 310.16 {a:g} A × {f:g} for {t:g} °C ambient (Table "
+                "310.15(B)(1)(1), from memory), up to three current-carrying conductors",
+                amp, factor, ambient))
+            ctx.publish("protection.wire_max_fuse", out(np.minimum(limit, amp_c)),
                         "its corrected ampacity, and NEC 240.4(D) for 14–10 AWG")
             ctx.publish("protection.wire_table", "NEC Table 310.16 and 240.4(D)")
         elif small is not None:
@@ -152,11 +165,15 @@ def _wire(ctx: Ctx, has_fuse: bool) -> None:
     with ctx.section("protection.wire_withstand", "protection.wire_k"):
         area = ctx.need("wiring.size")
         k = protection.adiabatic_k(temp)
-        ctx.publish("protection.wire_k", k, "copper, IEC 60364-4-43 Table 43A (from memory): "
-                    + ("thermosetting insulation" if temp >= 90 else "thermoplastic insulation"))
+        ctx.publish("protection.wire_k", k, each(
+            lambda t: "copper, IEC 60364-4-43 Table 43A (from memory): "
+            + ("thermosetting insulation" if t >= 90 else "thermoplastic insulation"), temp))
         ctx.publish("protection.wire_withstand", protection.wire_withstand_i2t(k, area))
     if has_fuse:
         found = protection.smallest_wire_for_fuse(ctx.v("fuse.rating"), temp)
+        if isinstance(found, tuple) and isinstance(found[0], np.ndarray):  # an array call
+            gauge = one_path(found[0])
+            found = None if gauge is None else (gauge, float(found[1].reshape(-1)[0]))
         if found is not None:
             gauge, area = found
             mm2 = area * 1e6
@@ -164,6 +181,13 @@ def _wire(ctx: Ctx, has_fuse: bool) -> None:
             ctx.publish("protection.wire_needed_area", area)
         else:
             ctx.publish("protection.wire_needed", "larger than 4/0 AWG: split the load or use a smaller fuse")
+
+
+def _given(x: Any) -> Any:
+    """Whether a table lookup gave a value: not None (scalar), not NaN (array elements)."""
+    if isinstance(x, np.ndarray):
+        return ~np.isnan(x)
+    return x is not None
 
 
 def _leads(ctx: Ctx, has_fuse: bool) -> None:
@@ -189,18 +213,18 @@ def _leads(ctx: Ctx, has_fuse: bool) -> None:
 
 def _inrush(ctx: Ctx, has_fuse: bool) -> None:
     with ctx.section("protection.inrush_i2t", "protection.inrush_peak"):
-        c = ctx.need("capacitors.bulk") + (ctx.v("capacitors.local") or 0.0)
+        c = ctx.need("capacitors.bulk") + or_default(ctx.v("capacitors.local"), 0.0)
         r_s = source_resistance(ctx)
         pre = ctx.v("protection.precharge_resistance")
         parts = [x for x in (r_s, ctx.v("capacitors.esr"), pre) if x is not None]
         r_total = sum(parts)
-        if r_total <= 0:
+        if one_path(r_total <= 0):
             raise NeedsData("source.r_internal", "protection.precharge_resistance")
         v = ctx.q("op.bus_max")
         ctx.publish("protection.inrush_i2t", protection.capacitor_inrush_i2t(v, c, r_total),
-                    "C·V²/(2R) at the highest bus, through " + ("the pre-charge resistor, " if pre
-                                                               else "no pre-charge, ")
-                    + "source, leads and ESR as given")
+                    each(lambda p: "C·V²/(2R) at the highest bus, through "
+                         + ("the pre-charge resistor, " if p else "no pre-charge, ")
+                         + "source, leads and ESR as given", pre))
         ctx.publish("protection.inrush_peak", v / r_total)
 
 
@@ -219,11 +243,11 @@ def _overcurrent(ctx: Ctx) -> None:
                         "the pulsed rating of one device times the devices in parallel")
     with ctx.section("protection.overcurrent_delay", "protection.fault_current_at_trip"):
         response = ctx.need("protection.overcurrent_response")
-        delay = response + (ctx.v("protection.overcurrent_blanking") or 0.0)
+        delay = response + or_default(ctx.v("protection.overcurrent_blanking"), 0.0)
         ctx.publish("protection.overcurrent_delay", delay, "blanking plus response")
         threshold = ctx.need("protection.overcurrent_threshold")
         l_f = ctx.v("filter.inductance")
-        if l_f:
+        if one_path(l_f != 0 if isinstance(l_f, np.ndarray) else bool(l_f)):
             ctx.publish("protection.fault_current_at_trip",
                         protection.fault_current_at_response(threshold, ctx.q("band.bus_peak"),
                                                              l_f, delay),

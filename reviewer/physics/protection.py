@@ -13,8 +13,11 @@ from __future__ import annotations
 
 from typing import Any
 
+import numpy as np
+
 from reviewer import tables
 from reviewer.physics import wire
+from reviewer.physics.arrays import arr, is_array
 from reviewer.physics.bus import input_current
 
 __all__ = [
@@ -143,7 +146,34 @@ def _listed_index(area: float) -> int | None:
     return best
 
 
-def wire_ampacity(area: float, insulation_temp: float = 75.0) -> float | None:
+def _column_indices(insulation_temp: Any) -> tuple[Any, list[str]]:
+    """Array form of :func:`_column`: for each element the index into the rising list of column
+    temperatures (−1 where the insulation is below every column), and that list."""
+    cols = sorted(int(c) for c in _nec()["column"])
+    i = np.searchsorted(np.asarray(cols, dtype=float), arr(insulation_temp), side="right") - 1
+    return i, [str(c) for c in cols]
+
+
+def _listed_indices(area: Any) -> Any:
+    """Array form of :func:`_listed_index`: −1 where the conductor reaches no listed size."""
+    reach = np.asarray([wire.awg_area(wire.parse_awg(g)) * (1 - AREA_TOLERANCE)
+                        for g in _nec()["awg"]])
+    assert np.all(np.diff(reach) > 0), "the listed sizes rise"
+    return np.searchsorted(reach, arr(area), side="right") - 1
+
+
+def _ampacities(area: Any, insulation_temp: Any) -> tuple[Any, Any]:
+    """Table 310.16 ampacity per element (NaN where the table says nothing) and the listed
+    index per element (−1: below the table)."""
+    ci, cols = _column_indices(insulation_temp)
+    li = _listed_indices(area)
+    ci, li = np.broadcast_arrays(ci, li)
+    table = np.asarray([_nec()["column"][c] for c in cols], dtype=float)
+    ok = (ci >= 0) & (li >= 0)
+    return np.where(ok, table[np.maximum(ci, 0), np.maximum(li, 0)], np.nan), li
+
+
+def wire_ampacity(area: Any, insulation_temp: Any = 75.0) -> Any:
     """Allowable ampacity of a copper conductor by NEC Table 310.16.
 
     A conductor between listed sizes (an mm² size, say) is rated as the next smaller listed size;
@@ -151,54 +181,63 @@ def wire_ampacity(area: float, insulation_temp: float = 75.0) -> float | None:
 
     Parameters
     ----------
-    area : float
+    area : float or ndarray
         Conductor cross-section [m²] (from an AWG size or mm², see :mod:`reviewer.physics.wire`).
-    insulation_temp : float
+    insulation_temp : float or ndarray
         Temperature rating of the insulation [°C].
 
     Returns
     -------
-    float or None
+    float, None or ndarray
         Ampacity [A] (30 °C ambient, not more than three current-carrying conductors together);
         ``None`` when the conductor is smaller than 14 AWG or the insulation is rated below 60 °C,
-        where the table says nothing. Battery cables run in free air carry more (Table 310.17);
-        this lookup is the conservative one.
+        where the table says nothing (for array inputs: an array, NaN at those elements).
+        Battery cables run in free air carry more (Table 310.17); this lookup is the
+        conservative one.
 
     References
     ----------
     NFPA 70 (NEC) 2023, Table 310.16, copper; ASTM B258-18 for the AWG areas.
     """
+    if is_array(area, insulation_temp):
+        return _ampacities(area, insulation_temp)[0]
     col, i = _column(insulation_temp), _listed_index(area)
     if col is None or i is None:
         return None
     return float(_nec()["column"][col][i])
 
 
-def wire_max_protection(area: float, insulation_temp: float = 75.0) -> float | None:
+def wire_max_protection(area: Any, insulation_temp: Any = 75.0) -> Any:
     """Largest fuse rating that protects a copper conductor: its ampacity, and for 14, 12 and
     10 AWG no more than 15, 20 and 30 A.
 
     Parameters
     ----------
-    area : float
+    area : float or ndarray
         Conductor cross-section [m²].
-    insulation_temp : float
+    insulation_temp : float or ndarray
         Temperature rating of the insulation [°C].
 
     Returns
     -------
-    float or None
-        The limit [A], or ``None`` where :func:`wire_ampacity` has no value.
+    float, None or ndarray
+        The limit [A], or ``None`` where :func:`wire_ampacity` has no value (NaN there for array
+        inputs).
 
     References
     ----------
     NFPA 70 (NEC) 2023, 240.4(D) and Table 310.16. The code's allowance to round up to the next
     standard device rating (240.4(B)) is not taken: the review stays on the safe side.
     """
+    small = tables.load("nec_310_16")["small_conductor"]
+    if is_array(area, insulation_temp):
+        amp, li = _ampacities(area, insulation_temp)
+        cap = np.asarray([float(small["max_protection"][small["awg"].index(g)])
+                          if g in small["awg"] else np.inf for g in _nec()["awg"]])
+        return np.minimum(amp, cap[np.maximum(li, 0)])  # NaN (no ampacity) stays NaN
     amp = wire_ampacity(area, insulation_temp)
     if amp is None:
         return None
-    small = tables.load("nec_310_16")["small_conductor"]
     i = _listed_index(area)
     gauge = _nec()["awg"][i]
     if gauge in small["awg"]:
@@ -206,26 +245,37 @@ def wire_max_protection(area: float, insulation_temp: float = 75.0) -> float | N
     return amp
 
 
-def smallest_wire_for_fuse(fuse_rating: float, insulation_temp: float = 75.0) -> tuple[str, float] | None:
+def smallest_wire_for_fuse(fuse_rating: Any, insulation_temp: Any = 75.0) -> Any:
     """The smallest listed copper conductor that a fuse of ``fuse_rating`` protects.
 
     Parameters
     ----------
-    fuse_rating : float
+    fuse_rating : float or ndarray
         Fuse current rating [A].
-    insulation_temp : float
+    insulation_temp : float or ndarray
         Temperature rating of the insulation [°C].
 
     Returns
     -------
-    tuple of (str, float) or None
+    tuple of (str, float), None, or tuple of two ndarrays
         The AWG size (``"10"``, ``"1/0"``) and its area [m²]; ``None`` when no size in the table
-        is enough.
+        is enough. For array inputs: an object array of sizes (None where none is enough) and
+        an array of areas (NaN there).
 
     References
     ----------
     NFPA 70 (NEC) 2023, 240.4(D) and Table 310.16.
     """
+    if is_array(fuse_rating, insulation_temp):
+        rating, temp = np.broadcast_arrays(arr(fuse_rating), arr(insulation_temp))
+        gauges = np.full(rating.shape, None, dtype=object)
+        areas = np.full(rating.shape, np.nan)
+        for g in reversed(_nec()["awg"]):  # the smallest size that is enough wins
+            area = wire.awg_area(wire.parse_awg(g))
+            enough = wire_max_protection(np.full(rating.shape, area), temp) >= rating
+            gauges[enough] = g
+            areas[enough] = area
+        return gauges, areas
     for g in _nec()["awg"]:
         area = wire.awg_area(wire.parse_awg(g))
         limit = wire_max_protection(area, insulation_temp)
@@ -351,6 +401,19 @@ def fuse_ambient_factor(standard: str, ambient: Any) -> Any:
     return float(out) if out.ndim == 0 else out
 
 
+def fuse_ambient_covered(ambient: Any) -> Any:
+    """Whether :func:`fuse_ambient_factor` has a value at ``ambient`` (at or below the table's
+    last row) [bool, or a bool array].
+
+    References
+    ----------
+    ``reviewer/tables/fuse_ambient.toml``.
+    """
+    top = float(tables.load("fuse_ambient")["data"]["ambient"][-1])
+    covered = np.asarray(ambient, dtype=float) <= top
+    return bool(covered) if covered.ndim == 0 else covered
+
+
 def small_conductor(gauge: str) -> tuple[float, float, str] | None:
     """NEC 240.4(D)(1)/(2) for 18 and 16 AWG copper: (largest protection [A], largest continuous
     load [A], conditions), or None for other sizes.
@@ -367,11 +430,19 @@ def small_conductor(gauge: str) -> tuple[float, float, str] | None:
     return float(below["max_protection"][i]), float(below["continuous_max"][i]), below["conditions"]
 
 
-def small_conductor_gauge(area: float) -> str | None:
+def small_conductor_gauge(area: Any) -> Any:
     """The 240.4(D) small size ('18' or '16') an area reaches (within :data:`AREA_TOLERANCE`)
-    when it is below 14 AWG, or None."""
+    when it is below 14 AWG, or None; for an array of areas, an object array of these."""
+    below = tables.load("nec_310_16")["below_table"]["awg"]
+    if is_array(area):
+        reach = np.asarray([wire.awg_area(wire.parse_awg(g)) * (1 - AREA_TOLERANCE)
+                            for g in below])
+        assert np.all(np.diff(reach) > 0), "the small sizes rise"
+        i = np.searchsorted(reach, arr(area), side="right") - 1
+        names = np.asarray([None, *below], dtype=object)
+        return names[i + 1]
     best = None
-    for g in tables.load("nec_310_16")["below_table"]["awg"]:
+    for g in below:
         if area >= wire.awg_area(wire.parse_awg(g)) * (1 - AREA_TOLERANCE):
             best = g
     return best
@@ -471,21 +542,21 @@ def clearing_multiple(speed: str | None) -> float:
     return CLEARING_MULTIPLE["slow" if speed is None else speed]
 
 
-def ampacity_ambient_factor(ambient: float, insulation_temp: float = 75.0) -> float | None:
+def ampacity_ambient_factor(ambient: Any, insulation_temp: Any = 75.0) -> Any:
     """Correction of a Table 310.16 ampacity for an ambient above 30 °C.
 
     Parameters
     ----------
-    ambient : float
+    ambient : float or ndarray
         Air temperature around the conductor [°C].
-    insulation_temp : float
+    insulation_temp : float or ndarray
         Temperature rating of the insulation [°C] (the column, as :func:`wire_ampacity`).
 
     Returns
     -------
-    float or None
+    float, None or ndarray
         The factor [unitless] (1 at or below 30 °C); ``None`` above the table or for insulation
-        below 60 °C.
+        below 60 °C (NaN at those elements for array inputs).
 
     References
     ----------
@@ -493,6 +564,14 @@ def ampacity_ambient_factor(ambient: float, insulation_temp: float = 75.0) -> fl
     from memory).
     """
     data = tables.load("nec_310_15_ambient")["data"]
+    if is_array(ambient, insulation_temp):
+        ci, cols = _column_indices(insulation_temp)
+        upper = np.asarray(data["ambient_upper"], dtype=float)
+        ri = np.searchsorted(upper, arr(ambient), side="left")  # first row at or above
+        ci, ri = np.broadcast_arrays(ci, ri)
+        table = np.asarray([data["column"][c] for c in cols], dtype=float)
+        ok = (ci >= 0) & (ri < len(upper))
+        return np.where(ok, table[np.maximum(ci, 0), np.minimum(ri, len(upper) - 1)], np.nan)
     col = _column(insulation_temp)
     if col is None or ambient > data["ambient_upper"][-1]:
         return None

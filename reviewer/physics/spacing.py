@@ -18,7 +18,10 @@ from __future__ import annotations
 
 from typing import Any
 
+import numpy as np
+
 from reviewer import tables
+from reviewer.physics.arrays import arr, is_array
 
 MM = 1e-3
 MIL = 25.4e-6
@@ -28,19 +31,40 @@ INSULATION_EQUIVALENT = {"supplementary": "basic", "double": "reinforced"}
 insulation (basic plus supplementary) ranks with reinforced (IEC 61140:2016)."""
 
 
-def rated_impulse_voltage(system_voltage: float, category: str) -> float:
+def _step(bounds: tuple[float, ...], x: Any) -> Any:
+    """:func:`reviewer.tables.step_index` per element: the first row at or above ``x``."""
+    if not is_array(x):
+        return tables.step_index(bounds, x)
+    xs = arr(x)
+    if np.any(xs > bounds[-1]):
+        raise ValueError(f"{np.max(xs):g} lies above the table's last row ({bounds[-1]:g})")
+    return np.searchsorted(np.asarray(bounds, dtype=float), xs, side="left")
+
+
+def _interp(xs: tuple[float, ...], ys: tuple[float, ...], x: Any) -> Any:
+    """:func:`reviewer.tables.interpolate` per element (the first row below the table, a
+    ValueError above it)."""
+    if not is_array(x):
+        return tables.interpolate(xs, ys, x)
+    at = arr(x)
+    if np.any(at > xs[-1]):
+        raise ValueError(f"{np.max(at):g} lies above the table's last row ({xs[-1]:g})")
+    return np.interp(at, np.asarray(xs, dtype=float), np.asarray(ys, dtype=float))
+
+
+def rated_impulse_voltage(system_voltage: Any, category: str) -> Any:
     """Rated impulse voltage for equipment fed from a low-voltage system (steps, no interpolation).
 
     Parameters
     ----------
-    system_voltage : float
+    system_voltage : float or ndarray
         Nominal line-to-neutral voltage of the supply system, a.c. rms or d.c. [V].
     category : str
         Overvoltage category ``"I"`` to ``"IV"``.
 
     Returns
     -------
-    float
+    float or ndarray
         Rated impulse voltage [V] of the first row at or above ``system_voltage``.
 
     References
@@ -48,11 +72,13 @@ def rated_impulse_voltage(system_voltage: float, category: str) -> float:
     IEC 60664-1:2007, Table F.1.
     """
     data = tables.load("iec60664_1_impulse")["data"]
-    i = tables.step_index(data["system_voltage"], system_voltage)
+    i = _step(data["system_voltage"], system_voltage)
+    if is_array(i):
+        return np.asarray(data["category"][category], dtype=float)[i]
     return float(data["category"][category][i])
 
 
-def altitude_factor(altitude: float) -> float:
+def altitude_factor(altitude: Any) -> Any:
     """Multiplier for clearances above 2000 m (1 at or below), interpolated.
 
     Parameters
@@ -70,10 +96,12 @@ def altitude_factor(altitude: float) -> float:
     IEC 60664-1:2007, Table A.2.
     """
     data = tables.load("iec60664_1_altitude")["data"]
+    if is_array(altitude):
+        return _interp(data["altitude_m"], data["factor"], np.maximum(altitude, 2000.0))
     return tables.interpolate(data["altitude_m"], data["factor"], max(altitude, 2000.0))
 
 
-def reinforced_impulse(v_impulse: float) -> float:
+def reinforced_impulse(v_impulse: Any) -> Any:
     """The impulse voltage reinforced insulation is dimensioned for: one step higher in the
     preferred series than the smallest preferred value at or above ``v_impulse``.
 
@@ -92,13 +120,15 @@ def reinforced_impulse(v_impulse: float) -> float:
     IEC 60664-1:2007, 5.1.6 and the preferred series of 4.2.3.
     """
     series = tables.load("iec60664_1_clearance")["reinforced"]["preferred_series"]
-    i = tables.step_index(series, v_impulse)
-    if i + 1 >= len(series):
-        raise ValueError(f"no preferred impulse voltage above {series[i]} V")
+    i = _step(series, v_impulse)
+    if np.any(np.asarray(i) + 1 >= len(series)):
+        raise ValueError(f"no preferred impulse voltage above {series[-1]} V")
+    if is_array(i):
+        return np.asarray(series, dtype=float)[i + 1]
     return float(series[i + 1])
 
 
-def clearance_for_impulse(v_impulse: float, pollution_degree: int, altitude: float = 0.0) -> float:
+def clearance_for_impulse(v_impulse: Any, pollution_degree: int, altitude: Any = 0.0) -> Any:
     """Minimum clearance for a required impulse withstand voltage, inhomogeneous field.
 
     Parameters
@@ -120,13 +150,13 @@ def clearance_for_impulse(v_impulse: float, pollution_degree: int, altitude: flo
     IEC 60664-1:2007, Table F.2 (Case A) and Table A.2.
     """
     data = tables.load("iec60664_1_clearance")["data"]
-    mm = tables.interpolate(data["impulse_kv"], data["pollution_degree"][str(pollution_degree)],
-                            v_impulse / 1000.0)
+    mm = _interp(data["impulse_kv"], data["pollution_degree"][str(pollution_degree)],
+                 v_impulse / 1000.0)
     return mm * MM * altitude_factor(altitude)
 
 
-def clearance_required(system_voltage: float, category: str, pollution_degree: int,
-                       insulation: str = "basic", altitude: float = 0.0) -> float:
+def clearance_required(system_voltage: Any, category: str, pollution_degree: int,
+                       insulation: str = "basic", altitude: Any = 0.0) -> Any:
     """Clearance for basic or reinforced insulation in equipment fed from a low-voltage system.
 
     Parameters
@@ -172,8 +202,8 @@ def _creepage_column(pollution_degree: int, material_group: str, printed_wiring:
     raise ValueError("Table F.4 as kept here covers pollution degrees 1 to 3")
 
 
-def creepage_required(v_working: float, pollution_degree: int, material_group: str,
-                      printed_wiring: bool = True, insulation: str = "basic") -> float:
+def creepage_required(v_working: Any, pollution_degree: int, material_group: str,
+                      printed_wiring: bool = True, insulation: str = "basic") -> Any:
     """Minimum creepage distance for a working voltage, interpolated linearly between rows.
 
     Parameters
@@ -201,24 +231,26 @@ def creepage_required(v_working: float, pollution_degree: int, material_group: s
     """
     table = tables.load("iec60664_1_creepage")
     col = _creepage_column(pollution_degree, material_group, printed_wiring)
-    mm = tables.interpolate(table["data"]["voltage"], table["data"]["columns"][col], v_working)
+    mm = _interp(table["data"]["voltage"], table["data"]["columns"][col], v_working)
     if insulation == "reinforced":
         mm *= table["reinforced"]["factor"]
     return mm * MM
 
 
-def creepage_needed(creepage: float, clearance: float) -> float:
+def creepage_needed(creepage: Any, clearance: Any) -> Any:
     """A creepage distance is never less than its associated clearance: ``max(creepage, clearance)``
-    [m].
+    [m] (per element for arrays).
 
     References
     ----------
     IEC 60664-1:2007, 5.2.
     """
+    if is_array(creepage, clearance):
+        return np.maximum(creepage, clearance)
     return max(creepage, clearance)
 
 
-def ipc2221_spacing(voltage: float, column: str) -> float:
+def ipc2221_spacing(voltage: Any, column: str) -> Any:
     """Minimum conductor spacing on a printed board by voltage band.
 
     Parameters
@@ -244,12 +276,18 @@ def ipc2221_spacing(voltage: float, column: str) -> float:
     data = tables.load("ipc2221_spacing")["data"]
     values = data["columns"][column]
     top = data["band_upper"][-1]
+    if is_array(voltage):
+        v = arr(voltage)
+        above = (values[-1] + data["per_volt_above_500"][column] * (v - top)) * MM
+        row = np.searchsorted(np.asarray(data["band_upper"], dtype=float), np.minimum(v, top),
+                              side="left")
+        return np.where(v > top, above, np.asarray(values, dtype=float)[row] * MM)
     if voltage > top:
         return (values[-1] + data["per_volt_above_500"][column] * (voltage - top)) * MM
     return values[tables.step_index(data["band_upper"], voltage)] * MM
 
 
-def ipc2221_column(layer: str, coated: bool, altitude: float = 0.0) -> str:
+def ipc2221_column(layer: str, coated: bool, altitude: Any = 0.0) -> Any:
     """The Table 6-1 column for bare conductors on a layer.
 
     Parameters
@@ -263,8 +301,9 @@ def ipc2221_column(layer: str, coated: bool, altitude: float = 0.0) -> str:
 
     Returns
     -------
-    str
-        ``"B1"``, ``"A5"``, ``"B2"`` or ``"B3"``.
+    str or ndarray
+        ``"B1"``, ``"A5"``, ``"B2"`` or ``"B3"`` (for an array of altitudes on an uncoated outer
+        layer, an object array of these, one per element).
 
     References
     ----------
@@ -274,6 +313,8 @@ def ipc2221_column(layer: str, coated: bool, altitude: float = 0.0) -> str:
         return "B1"
     if coated:
         return "A5"
+    if is_array(altitude):  # one column per element
+        return np.where(arr(altitude) > 3050.0, "B3", "B2").astype(object)
     return "B3" if altitude > 3050.0 else "B2"
 
 
