@@ -684,6 +684,12 @@ def _breaks(kind: str, phase, index, notch) -> np.ndarray:
     return np.stack(pts, axis=-1)
 
 
+def _on_grid(x: np.ndarray) -> np.ndarray:
+    """A per-point parameter shaped to broadcast against :func:`cycle_mean`'s quadrature grid
+    (points × pieces × nodes); a scalar stays as it is."""
+    return x[..., None, None] if x.ndim else x
+
+
 def on_share(kind: Kind, *, index=1.0, notch=0.0,
              zero_state: ZeroState = DEFAULT_ZERO_STATE) -> dict[str, object]:
     """Share of the output period each switch is on, (1/2π)·∫ d(θ) dθ [unitless].
@@ -695,9 +701,11 @@ def on_share(kind: Kind, *, index=1.0, notch=0.0,
     ----------
     Holmes & Lipo (2003), ch. 3; Mohan, Undeland & Robbins (2003), ch. 8.
     """
-    bk = _breaks(kind, 0.0, index, notch)
-    da = cycle_mean(lambda th: duty(kind, th, index, notch, zero_state)[0], bk)
-    db = cycle_mean(lambda th: duty(kind, th, index, notch, zero_state)[1], bk)
+    mi, ai = np.broadcast_arrays(arr(index), arr(notch))
+    bk = _breaks(kind, 0.0, mi, ai)
+    mg, ag = _on_grid(mi), _on_grid(ai)
+    da = cycle_mean(lambda th: duty(kind, th, mg, ag, zero_state)[0], bk)
+    db = cycle_mean(lambda th: duty(kind, th, mg, ag, zero_state)[1], bk)
     return {"a_high": out(da), "a_low": out(1.0 - da), "b_high": out(db), "b_low": out(1.0 - db)}
 
 
@@ -748,12 +756,12 @@ def conduction(kind: Kind, i_peak, phase=0.0, *, index=1.0, notch=0.0,
     & Robbins (2003) §8-3 (from memory).
     """
     i = arr(i_peak)
-    phi = arr(phase)
-    bk = _breaks(kind, phi, index, notch)
-    p = phi[..., None, None] if phi.ndim else phi
+    phi, mi, ai = np.broadcast_arrays(arr(phase), arr(index), arr(notch))
+    bk = _breaks(kind, phi, mi, ai)
+    p, mg, ag = _on_grid(phi), _on_grid(mi), _on_grid(ai)
 
     def parts(th: np.ndarray) -> dict[str, np.ndarray]:
-        da, db = duty(kind, th, index, notch, zero_state)
+        da, db = duty(kind, th, mg, ag, zero_state)
         cur = np.sin(th - p)
         return {"a_high": (da, cur), "a_low": (1.0 - da, -cur),
                 "b_high": (db, -cur), "b_low": (1.0 - db, cur)}
@@ -824,13 +832,13 @@ def hard_switching(kind: Kind, i_peak, phase=0.0, *, index=1.0,
     if kind not in PWM_KINDS:
         raise ValueError(f"hard-switching shares are for sine PWM, not {kind!r}")
     i = arr(i_peak)
-    phi = arr(phase)
-    bk = _breaks(kind, phi, index, 0.0)
-    p = phi[..., None, None] if phi.ndim else phi
+    phi, mi = np.broadcast_arrays(arr(phase), arr(index))
+    bk = _breaks(kind, phi, mi, 0.0)
+    p, mg = _on_grid(phi), _on_grid(mi)
     sgn = 1.0 if side == "high" else -1.0
 
     def legs(th: np.ndarray):
-        da, db = duty(kind, th, index)
+        da, db = duty(kind, th, mg)
         cur = np.sin(th - p)
         eps = 1e-12
         sa = ((da > eps) & (da < 1 - eps)).astype(float)
