@@ -96,7 +96,10 @@ def test_gate_and_stress_modules_as_one_array_call(monkeypatch):
     points = [{p: rng.uniform(vector.spans[p].lo, vector.spans[p].hi) for p in vector.tol}
               for _ in range(4)]
     batch = vector.batch(points)
-    assert (gate, True) in calls and (stress, True) in calls and vector.fallbacks == 0
+    # stress reads texts of earlier modules that differ between these points: the runner then
+    # calls it per group of points that agree ("split"), never a scalar fallback
+    assert (gate, "done") in calls and vector.fallbacks == 0
+    assert any(m is stress and r in ("done", "split") for m, r in calls)
     for at, got in zip(points, batch):
         want = scalar.point(at)
         assert got.missing == want.missing and got.notes == want.notes

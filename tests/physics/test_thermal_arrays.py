@@ -313,11 +313,11 @@ class _Quotes:
         ctx.publish("quoted.path", "path", f"turned off {path}")
 
 
-def test_a_differing_earlier_text_quoted_in_an_array_call_falls_back_not_prints_an_array():
+def test_a_differing_earlier_text_quoted_in_an_array_call_names_each_points_value():
     # the naive bench design turns its switches off through the pull resistor alone, and says
     # so with the resistor's value: a toleranced resistor makes that text differ between the
-    # points; a module that quotes it falls back to scalar runs (and so names the right
-    # resistor at each point) rather than printing an array
+    # points; the runner calls a module that reads it once per group of points with the same
+    # text (so each point's note names its own resistor) rather than printing an array
     from reviewer.derive import MODULES, switching
     from reviewer.design import load_design
     from reviewer.units import Span
@@ -331,7 +331,6 @@ def test_a_differing_earlier_text_quoted_in_an_array_call_falls_back_not_prints_
     scalar = Runner(design, replay=False, modules=modules)
     points = [{"drive.high.pull_resistor": r} for r in (8e3, 1e4, 1.2e4)]
     batch = vector.batch(points)
-    assert vector.fallbacks == 1
     notes = [run.notes["quoted.path"] for run in batch]
     assert notes == [scalar.point(at).notes["quoted.path"] for at in points]
     assert "8 kΩ" in notes[0] and "12 kΩ" in notes[2] and "[" not in notes[1]
