@@ -163,3 +163,93 @@ def test_one_path_gives_the_common_key_or_splits():
 def test_each_gives_one_text_per_point():
     assert each(lambda a, b: f"{a:g}/{b}", 2.0, "x") == "2/x"
     assert each(lambda a, b: f"{a:g}/{b}", np.array([1.0, 2.5]), "x") == ["1/x", "2.5/x"]
+
+
+# spacing: IEC 60664-1 and IPC-2221 lookups per element ----------------------------------------
+from reviewer.physics import band, bus, grounding, spacing  # noqa: E402
+
+SYSTEM = [10.0, 50.0, 100.0, 150.0, 151.0, 230.0, 300.0, 301.0, 600.0, 1000.0]
+
+
+@pytest.mark.parametrize("category", ["I", "II", "III", "IV"])
+def test_rated_impulse_per_element(category):
+    same_as_scalars(lambda v: spacing.rated_impulse_voltage(v, category), SYSTEM)
+    # IEC 60664-1:2007 Table F.1: 230 V line to neutral (300 V row), category II: 2500 V
+    assert spacing.rated_impulse_voltage(np.array([230.0]), "II").tolist() == [2500.0]
+
+
+def test_reinforced_impulse_per_element():
+    same_as_scalars(spacing.reinforced_impulse, [330.0, 500.0, 800.0, 1500.0, 2500.0, 2600.0])
+
+
+@pytest.mark.parametrize("insulation", ["basic", "reinforced"])
+@pytest.mark.parametrize("pd", [1, 2, 3])
+def test_clearance_per_element(insulation, pd):
+    alt = [0.0, 1000.0, 2000.0, 2500.0, 3000.0, 4000.0, 0.0, 5000.0, 2000.0, 0.0]
+    same_as_scalars(lambda v, a: spacing.clearance_required(v, "II", pd, insulation, a),
+                    SYSTEM, alt)
+
+
+@pytest.mark.parametrize("group", ["I", "II", "IIIa", "IIIb"])
+@pytest.mark.parametrize("pd,printed", [(1, True), (1, False), (2, True), (2, False), (3, False)])
+def test_creepage_per_element(group, pd, printed):
+    working = [5.0, 10.0, 12.5, 50.0, 63.0, 100.0, 250.0, 320.0, 400.0, 630.0]
+    for grade in ("basic", "reinforced"):
+        same_as_scalars(lambda v: spacing.creepage_required(v, pd, group, printed, grade),
+                        working)
+
+
+def test_lookups_above_the_table_raise_for_arrays_as_for_scalars():
+    with pytest.raises(ValueError):
+        spacing.creepage_required(1e9, 2, "I")
+    with pytest.raises(ValueError):
+        spacing.creepage_required(np.array([100.0, 1e9]), 2, "I")
+    with pytest.raises(ValueError):
+        spacing.rated_impulse_voltage(np.array([100.0, 1e9]), "II")
+
+
+@pytest.mark.parametrize("column", ["B1", "B2", "B3", "B4", "A5", "A6", "A7"])
+def test_ipc2221_spacing_per_element(column):
+    # band edges (inclusive upper bounds), inside bands and above 500 V (the per-volt rule)
+    volts = [0.0, 15.0, 15.1, 30.0, 49.9, 100.0, 170.0, 300.5, 500.0, 500.1, 1200.0]
+    same_as_scalars(lambda v: spacing.ipc2221_spacing(v, column), volts)
+
+
+def test_ipc2221_column_and_creepage_needed_per_element():
+    alts = np.array([0.0, 3050.0, 3051.0])
+    assert spacing.ipc2221_column("outer", False, alts).tolist() == [
+        spacing.ipc2221_column("outer", False, float(a)) for a in alts]
+    assert spacing.ipc2221_column("inner", False, alts) == "B1"
+    same_as_scalars(spacing.creepage_needed, [1e-3, 2e-3, 3e-3], [2e-3, 2e-3, 1e-3])
+    same_as_scalars(lambda v: spacing.ac_test_voltage(v, "reinforced"), [50.0, 230.0])
+
+
+# band, bus, grounding: formulas and their branches ------------------------------------------
+
+def test_band_per_element():
+    same_as_scalars(band.dc_band_limit, [0.0, 0.05, 0.10, 0.1000001, 0.5])
+    same_as_scalars(band.dc_peak, [12.0, 48.0, 120.0], [0.0, 0.1, 0.3])
+    same_as_scalars(band.bus_peak, [12.0, 48.0, 120.0], [0.0, 0.1, 0.3], [0.0, 1.0, 2.0])
+    same_as_scalars(band.chemistry_v_max, [12.0, 24.0], 2.45, 2.0)
+
+
+def test_bus_per_element():
+    i, pf = [1.0, 5.0, 12.0], [1.0, 0.8, 0.3]
+    same_as_scalars(bus.ripple_current_2f, i, pf)
+    for mod in ("bipolar", "unipolar"):
+        same_as_scalars(lambda a, m, p: bus.ripple_current_switching(a, m, p, mod), i,
+                        [0.5, 0.9, 1.0], pf)
+        same_as_scalars(lambda a, m, p: bus.input_current_rms(a, m, p, mod), i,
+                        [0.5, 0.9, 1.0], pf)
+    # a finite source shares the ripple, an infinite one (a rectifier) leaves it to the
+    # capacitors, zero takes it all
+    rs = [0.0, 0.05, math.inf]
+    same_as_scalars(bus.source_share, rs, 100.0, [1e-3, 2e-3, 3e-3], 0.01)
+    same_as_scalars(bus.shared_bus_ripple, i, rs, 100.0, [1e-3, 2e-3, 3e-3], 0.01)
+    same_as_scalars(bus.supply_lead_rms, i, [0.1, 2.0, 0.0])
+    same_as_scalars(bus.edge_voltage_step, i, [20e-9, 50e-9, 1e-6], 1e-6)
+
+
+def test_grounding_per_element():
+    same_as_scalars(grounding.ground_bounce, [1e-9, 5e-9], [10.0, 20.0], [20e-9, 50e-9])
+    same_as_scalars(grounding.max_inductance, [0.4, 0.8], [10.0, 20.0], [20e-9, 50e-9])
