@@ -824,9 +824,15 @@ def build_deck(review: Any, corner: str | Any = "worst", analysis: str = "leg") 
 
     out.blank()
     out.comment("--- Analyses " + "-" * 70)
-    out.element(".options method=gear",
+    out.element(".options method=gear abstol=1e-9 noopiter",
                 "Gear integration: the leg's picosecond time constants (milliohm channels across "
-                "picofarads) make the trapezoidal rule ring and crawl.")
+                "picofarads) make the trapezoidal rule ring and crawl. Current tolerance 1 nA "
+                "(the default is 1 pA): the branch currents of the floating sources on the switch "
+                "node (nearly zero, but computed from amperes) otherwise never settle to 1 pA, "
+                "and the step shrinks until the run stops ('timestep too small'); the smallest "
+                "current the deck means (a pull resistor's) is microamperes or more. The operating "
+                "point goes straight to gmin stepping (noopiter): a direct solve finds the "
+                "matrix singular at some corners before stepping recovers.")
     fc = edges.carrier or 100 * f0  # square waves: resolve harmonics to the 100th
     f_lc = v.get("filter.corner") or fc
     cards = {
