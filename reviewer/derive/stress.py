@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from functools import reduce
 
 import numpy as np
@@ -10,6 +11,8 @@ from reviewer.physics import gate, grounding
 from reviewer.physics import thermal as tp
 from reviewer.physics.arrays import out
 from reviewer.context import SIDES, Ctx, NeedsData, declare
+from reviewer.derive.paths import each
+from reviewer.units import render
 
 VECTOR = True
 """Evaluated over arrays (one element per point) by :meth:`reviewer.quantities.Runner.batch`."""
@@ -52,6 +55,14 @@ def gate_source_range(ctx: Ctx, side: str, which: str, v_bus: float) -> tuple[fl
     return lo, hi
 
 
+def _avalanche_note(energy: float, v_bus: float, rating: float) -> str:
+    if math.isinf(energy):
+        return (f"no finite energy: the bus peak ({render(v_bus, 'V')}) is at or above the "
+                f"switch's rating ({render(rating, 'V')}), so the avalanche never ends and the "
+                "part is destroyed at the first turn-off")
+    return "the loop's energy clamped at the rating (unclamped-inductive form)"
+
+
 def derive(ctx: Ctx) -> None:
     v_max = ctx.q("band.bus_peak")  # the one bus peak (highest bus plus ripple) of derive/band.py
     for side in SIDES:
@@ -80,9 +91,9 @@ def derive(ctx: Ctx) -> None:
                 ctx.publish(f"stress.{side}.overshoot", dv)
                 ctx.publish(f"stress.{side}.vds_peak", peak)
                 rating = ctx.v(f"switch.{side}.vds_rating")
-                ctx.publish(f"stress.{side}.avalanche_energy",
-                            out(grounding.avalanche_energy(loop, i_pk, rating, v_max, peak)),
-                            "the loop's energy clamped at the rating (unclamped-inductive form)")
+                energy = out(grounding.avalanche_energy(loop, i_pk, rating, v_max, peak))
+                ctx.publish(f"stress.{side}.avalanche_energy", energy,
+                            each(_avalanche_note, energy, v_max, rating))
         with ctx.section(f"stress.{side}.turn_on_peak"):
             n = int(ctx.v(f"switch.{side}.count"))
             i_dev = out(tp.device_current(ctx.q("op.load_current_peak"), n))

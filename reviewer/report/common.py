@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from reviewer.findings import BASES, Finding
-from reviewer.shown import distinct
+from reviewer.shown import distinct, figure
 from reviewer.units import render
 
 LABEL = {
@@ -91,7 +91,8 @@ def outcome_word(outcome: str) -> str:
 
 
 def num(value: float | None, unit: str) -> str:
-    return "—" if value is None else render(value, unit)
+    """A figure in a report cell: words where it is absent or not finite (never a symbol)."""
+    return figure(value, unit)
 
 
 def computed(f: Finding) -> str:

@@ -246,3 +246,24 @@ def test_spectrum_in_db_of_each_sides_own_fundamental():
         assert db[1] == pytest.approx(-9.542, abs=1e-3)
         assert db[2] == pytest.approx(-13.979, abs=1e-3)
     assert db_of_fundamental(freq, [0.0, 1.0, 1.0], 50.0) is None  # no fundamental: no picture
+
+
+SHEET_SYMBOLS = re.compile(r"∞|\binf\b|\bnan\b|\bNone\b|\|\s*—\s*\|")
+"""Symbols where the calculation sheet must give words (an unbounded or absent figure)."""
+
+
+@pytest.mark.parametrize("name", ["low ratings", "no filter", "no thermal data",
+                                  "unreachable target", "shared signal"])
+def test_calculation_sheet_gives_words_for_unbounded_figures(name):
+    # a switch rated below the bus peak avalanches without end (E = ½·L·I²·V_BR/(V_BR − V_bus)
+    # has no finite value for V_BR ≤ V_bus: the unclamped-inductive-switching form, common
+    # practice): the sheet says so in words and gives the reason, never "∞ J"
+    from tests.variants import variant_review
+
+    review = variant_review(name)
+    lines = markdown.render([review]).split("## Appendix: calculation sheet", 1)[1].splitlines()
+    bad = [ln for ln in lines if SHEET_SYMBOLS.search(ln)]
+    assert not bad, "\n".join(bad)
+    if name == "low ratings":
+        (row,) = [ln for ln in lines if "`stress.high.avalanche_energy`" in ln]
+        assert "no finite figure" in row and "at or above the switch's rating (12 V)" in row
