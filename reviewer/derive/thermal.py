@@ -120,6 +120,16 @@ def derive(ctx: Ctx) -> None:
         ctx.publish("thermal.load_angle", load_angle(ctx), "load inductance only; a transformer's "
                     "magnetising current is not included")
     kind = ctx.v("modulation.kind")
+    spwm = kind not in ("square", "quasi_square")
+    # the switching-pattern figures depend on the leg, not on the side asking: each is made
+    # once per call and shared by both sides (they are the costly part of this module)
+    made: dict[Any, Any] = {}
+
+    def once(key: Any, make: Callable[[], Any]) -> Any:
+        if key not in made:
+            made[key] = make()
+        return made[key]
+
     for side in SIDES:
         sw = f"switch.{side}"
         names = [f"thermal.{side}.{k}" for k in (
@@ -134,8 +144,17 @@ def derive(ctx: Ctx) -> None:
             index = _or(ctx.v("modulation.index"), 1.0)
             n = int(ctx.v(f"{sw}.count"))
             zero = ctx.v("modulation.zero_state")
-            c = tp.switch_currents(kind, i_pk, phi, notch_angle=alpha, index=index,
-                                   zero_state=zero)
+            c = once("currents", lambda: tp.switch_currents(kind, i_pk, phi, notch_angle=alpha,
+                                                           index=index, zero_state=zero))
+
+            def hard(s: str) -> Any:
+                return once(("hard", s), lambda: pattern.hard_switching(kind, i_pk, phi,
+                                                                        index=index, side=s))
+
+            def switched(s: str) -> Any:
+                return once(("switched", s), lambda: tp.switched_current(
+                    kind, i_pk, phi, alpha, index=index, side=s, hard=hard(s) if spwm else None))
+
             rms = c.high_rms if side == "high" else c.low_rms
             basis: Any = FUNDAMENTAL
             if ctx.has("waveform.bridge_current_rms"):
@@ -148,8 +167,7 @@ def derive(ctx: Ctx) -> None:
                                    rms)
                     basis = _texts(lambda h: HARMONICS if h else FUNDAMENTAL, harmonic)
             i_dev = out(tp.device_current(rms, n))
-            i_sw = out(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
-                                                             side=side), n))
+            i_sw = out(tp.device_current(switched(side), n))
             ctx.publish(f"thermal.{side}.device_rms", i_dev, basis)
             ctx.publish(f"thermal.{side}.device_switched", i_sw, FUNDAMENTAL)
 
@@ -163,11 +181,9 @@ def derive(ctx: Ctx) -> None:
                                            - ctx.q(f"switching.{side}.tail"), 0.0)
             other = "low" if side == "high" else "high"
             qrr = ctx.v(f"switch.{other}.diode_qrr")
-            spwm = kind not in ("square", "quasi_square")
             # sine PWM: a device turns on against the other's diode only in the carrier periods
             # it hard-switches (half of them for bipolar and unipolar)
-            share = (pattern.hard_switching(kind, i_pk, phi, index=index, side=side).fraction
-                     if spwm else 1.0)
+            share = hard(side).fraction if spwm else 1.0
             no_qrr = f"switch.{other}.diode_qrr not given: no recovery loss counted"
             if qrr is None:
                 p_rr, rr_note = 0.0, no_qrr
@@ -182,9 +198,7 @@ def derive(ctx: Ctx) -> None:
             # a device's diode carries the dead times of the edges the other device of its leg
             # hard-switches (the same current for bipolar and unipolar; level-shifted legs load
             # the low side's diode with the high side's edges)
-            i_fw = (out(tp.device_current(tp.switched_current(kind, i_pk, phi, alpha, index=index,
-                                                              side=other), n))
-                    if spwm else i_sw / 2)
+            i_fw = out(tp.device_current(switched(other), n)) if spwm else i_sw / 2
             p_d = tp.body_diode_loss(vf, i_fw, dead, f_sw)
             ctx.publish(f"thermal.{side}.recovery_loss", p_rr, rr_note)
             ctx.publish(f"thermal.{side}.switching_loss", p_sw, FUNDAMENTAL)

@@ -643,7 +643,8 @@ def square_edge_current(i_peak, phase=0.0):
 
 def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0.0,
                      notch_angle: float = 0.0, *, index: float = 1.0,
-                     side: Literal["high", "low"] = "high") -> float:
+                     side: Literal["high", "low"] = "high",
+                     hard: "pattern.HardSwitching | None" = None) -> float:
     """Mean current one device hard-switches per edge, over the output period [A].
 
     sine PWM: a device hard-switches only in the carrier periods where its leg switches and
@@ -663,6 +664,8 @@ def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0
     notch_angle : quasi-square zero-interval half-angle α [rad]
     index : sine-PWM modulation index [unitless]
     side : position of the device
+    hard : sine PWM: the device's :func:`reviewer.physics.pattern.hard_switching` for these
+        inputs, when the caller has it already (it is the costly part)
 
     References
     ----------
@@ -674,7 +677,9 @@ def switched_current(modulation: ModulationKind, i_peak: float, phase: float = 0
     if modulation == "quasi_square":
         return _out(stepped_edge_current(i, phi, a))
     if modulation in pattern.PWM_KINDS:
-        return _out(pattern.hard_switching(modulation, i, phi, index=index, side=side).current)
+        if hard is None:
+            hard = pattern.hard_switching(modulation, i, phi, index=index, side=side)
+        return _out(hard.current)
     raise ValueError(f"unknown modulation {modulation!r}")
 
 
