@@ -61,6 +61,10 @@ VARIANTS: list[tuple[str, str, dict[str, Any]]] = [
     # an on level below the Miller plateau at one corner: the edge, its loss and the local
     # capacitor's dip have no finite value there (texts must say so in words)
     ("gate below plateau", QUASI, {"drive.high.on_level": "4 V"}),
+    # an on level below the threshold: the switch never turns on (no current rise at all)
+    ("gate below threshold", CAREFUL, {"drive.high.on_level": "1.6 V"}),
+    # a T_j,max within 25 °C of the ambient: no heat path is enough
+    ("low junction rating", CAREFUL, {"switch.low.tj_max": "41 °C"}),
 ]
 
 

@@ -25,9 +25,15 @@ def current_slope(i_step: Any, t_transition: Any) -> Any:
 
     References
     ----------
-    Mohan, Undeland & Robbins (2003): linearised switching transition.
+    Mohan, Undeland & Robbins (2003): linearised switching transition. A zero transition time
+    gives an unbounded slope (``inf``), never a division error.
     """
-    return i_step / t_transition
+    import numpy as np
+
+    from reviewer.physics.arrays import out
+
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return out(np.divide(np.asarray(i_step, dtype=float), np.asarray(t_transition, dtype=float)))
 
 
 def inductive_voltage(inductance: Any, di_dt: Any) -> Any:

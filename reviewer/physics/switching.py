@@ -450,7 +450,10 @@ def switching_times(ciss, qgd, v_drive, vth, v_plateau, *, r_on=None, r_off=None
     if r_off is None and i_sink is None:
         raise ValueError("turn-off needs a loop resistance or a sink current")
     td_on = stage_time(ciss, v_off, v_drive, vth, r_on, i_source)
-    t_ri = stage_time(ciss, vth, v_drive, v_plateau, r_on, i_source)
+    # a gate that never reaches the threshold never starts the current rise: no finite interval
+    # (not the zero stage_time gives for a node already past its crossing)
+    t_ri = _pick(np.isinf(_a(td_on)), np.inf,
+                 stage_time(ciss, vth, v_drive, v_plateau, r_on, i_source))
     tr = plateau_time(qgd, _a(v_drive) - _a(v_plateau), r_on, i_source)
     td_off, tf, tail = turn_off_intervals(ciss, qgd, v_drive, vth, v_plateau, r_off=r_off,
                                           i_sink=i_sink, v_off=v_off, c_above=c_above)

@@ -14,6 +14,9 @@ def test_ground_bounce_hand_calculation():
     # di/dt = 20 / 50e-9 = 4e8 A/s; V = 10e-9 · 4e8 = 4.0 V.
     assert g.current_slope(20.0, 50e-9) == pytest.approx(4e8)
     assert g.ground_bounce(10e-9, 20.0, 50e-9) == pytest.approx(4.0)
+    # an instantaneous edge has no finite slope: unbounded, never a division error
+    assert g.current_slope(20.0, 0.0) == float("inf")
+    assert list(g.current_slope(np.array([20.0, 20.0]), np.array([0.0, 50e-9]))) == [float("inf"), 4e8]
 
 
 def test_overshoot_hand_calculation():

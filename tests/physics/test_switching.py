@@ -57,6 +57,20 @@ def test_drive_below_plateau_never_completes():
     assert sw.turn_on_delay(10.0, CISS, 2.5, VTH) == math.inf
 
 
+@pytest.mark.parametrize("v_drive", [2.5, VTH])
+def test_drive_at_or_below_threshold_never_starts_the_current_rise(v_drive):
+    # the gate never reaches V_th, so the drain current never starts to rise: every turn-on
+    # interval is unbounded, the current rise included (not the zero of a node "already past"
+    # the plateau, which an inductance would turn into an infinite di/dt)
+    t = sw.switching_times(CISS, QGD, v_drive, VTH, VPL, r_on=10.0, r_off=10.0)
+    assert t.td_on == math.inf and t.t_ri == math.inf and t.tr == math.inf
+    # arrays: the same per element, the point that does reach the threshold unchanged
+    a = sw.switching_times(CISS, QGD, np.array([v_drive, VDR]), VTH, VPL, r_on=10.0, r_off=10.0)
+    assert a.t_ri[0] == math.inf
+    assert a.t_ri[1] == pytest.approx(sw.switching_times(CISS, QGD, VDR, VTH, VPL, r_on=10.0,
+                                                         r_off=10.0).t_ri, rel=1e-12)
+
+
 def test_turn_on_delay_against_ode():
     # C dv/dt = (V_dr − v)/R integrated by scipy; event at v = V_th.
     r = 10.0
