@@ -65,6 +65,8 @@ VARIANTS: list[tuple[str, str, dict[str, Any]]] = [
     ("gate below threshold", CAREFUL, {"drive.high.on_level": "1.6 V"}),
     # a T_j,max within 25 °C of the ambient: no heat path is enough
     ("low junction rating", CAREFUL, {"switch.low.tj_max": "41 °C"}),
+    # no fuse, at an ambient beyond the fuse rerating table: the smallest rating is not computed
+    ("unfused hot ambient", NAIVE, {"environment.ambient": "135 °C"}),
 ]
 
 
