@@ -360,10 +360,14 @@ class Runner:
             ctxs.append(Ctx(self.design, values, self.catalogue, typical=False))
         reads: list[list[frozenset[tuple[str, str]]]] = [[] for _ in range(n)]
         varying = {p for p in self.tol if len({at.get(p) for at in points}) > 1}
+        # the columns of what earlier modules published, per set of points, made once: a name is
+        # published by one module only and never changes after it ran (see _vector)
+        columns: dict[tuple[int, ...], dict[str, Any]] = {}
         for module, tree in zip(self.modules, self._trees):
             rest: Iterable[int] = range(n)
             if getattr(module, "VECTOR", False) and n > 1:
-                rest = self._vector_groups(module, ctxs, list(range(n)), varying, reads, np)
+                rest = self._vector_groups(module, ctxs, list(range(n)), varying, reads, np,
+                                           columns)
             for i in rest:
                 reads[i].append(self._one(module, tree, ctxs[i], learn))
         self.made += n
@@ -411,11 +415,14 @@ class Runner:
         return hit[3]
 
     def _vector_groups(self, module: Any, ctxs: list[Ctx], idx: list[int], varying: set[str],
-                       reads: list, np: Any) -> list[int]:
+                       reads: list, np: Any, columns: dict[tuple[int, ...], dict[str, Any]]
+                       ) -> list[int]:
         """Array calls of an opted-in module over the contexts ``idx``: one call where they agree
         on what earlier modules published (numbers and flags may differ: arrays), else one call
-        per group of contexts that agree; the indices left to run one by one."""
-        got = self._vector(module, [ctxs[i] for i in idx], varying, reads, idx, np)
+        per group of contexts that agree; the indices left to run one by one. ``columns`` keeps
+        the columns of earlier modules' results per set of points (see :meth:`_vector`)."""
+        got = self._vector(module, [ctxs[i] for i in idx], varying, reads, idx, np,
+                           columns.setdefault(tuple(idx), {}))
         if isinstance(got, tuple):  # SplitPoints: one call per group of equal keys
             keys = np.asarray(got[1]).reshape(-1).tolist()
             if len(keys) != len(idx) or len(set(keys)) < 2:  # no split: not array-safe here
@@ -427,7 +434,8 @@ class Runner:
             left: list[int] = []
             for members in by_key.values():
                 left.extend(members if len(members) == 1 else
-                            self._vector_groups(module, ctxs, members, varying, reads, np))
+                            self._vector_groups(module, ctxs, members, varying, reads, np,
+                                                columns))
             return sorted(left)
         if got == "done":
             return []
@@ -444,11 +452,13 @@ class Runner:
             if len(members) == 1:
                 rest.extend(members)
             else:
-                rest.extend(self._vector_groups(module, ctxs, members, varying, reads, np))
+                rest.extend(self._vector_groups(module, ctxs, members, varying, reads, np,
+                                                columns))
         return sorted(rest)
 
     def _vector(self, module: Any, ctxs: list[Ctx], varying: set[str], reads: list,
-                idx: list[int], np: Any) -> str | tuple[str, Any]:
+                idx: list[int], np: Any, columns: dict[str, Any] | None = None
+                ) -> str | tuple[str, Any]:
         """One call of an opted-in module over every context: "done"; "split" where the
         contexts differ in what earlier modules published (call per group), "flags" where the
         module raised on flags that differ (call per group of equal flags), "fails" where it
@@ -463,19 +473,19 @@ class Runner:
         first = ctxs[0]
         out: dict[str, Any] = {}
         flags = False
+        # a name is published by one module only, and its value at a point never changes once
+        # that module ran: the column made for an earlier module's call over the same points
+        # holds for this one
+        made = {} if columns is None else columns
         for name in first.out:
-            col = [c.out.get(name, _GONE) for c in ctxs]
-            if any(x is _GONE for x in col):
+            entry = made.get(name)
+            if entry is None:
+                entry = made[name] = _column(name, ctxs, np)
+            if entry is _SPLIT:
                 return "split"
-            if all(_same_value(x, col[0]) for x in col):
-                out[name] = col[0]
-            elif all(isinstance(x, bool) for x in col):
-                out[name] = np.array(col, dtype=bool)
-                flags = True
-            elif all(_is_number(x) for x in col):
-                out[name] = np.array(col, dtype=float)
-            else:
-                return "split"
+            kind, value = entry
+            out[name] = value
+            flags = flags or kind == "flags"
         if any(len(c.out) != len(first.out) or c.missing != first.missing for c in ctxs):
             return "split"
         actx = Ctx(self.design, values, self.catalogue, typical=False)
@@ -544,6 +554,28 @@ class Runner:
             elif n in self.owner:
                 found |= md[self.owner[n]]
         return tuple(p for p in self.tol if p in found)
+
+
+_SPLIT = ("split", None)
+
+
+def _column(name: str, ctxs: list[Ctx], np: Any) -> tuple[str, Any]:
+    """What an array call reads for ``name`` over ``ctxs``: ("same", the one value), ("flags",
+    a bool array), ("numbers", a float array), or :data:`_SPLIT` where some point lacks it or
+    the values are texts (or tables) that differ."""
+    col = [c.out.get(name, _GONE) for c in ctxs]
+    if any(x is _GONE for x in col):
+        return _SPLIT
+    if all(_same_value(x, col[0]) for x in col):
+        return ("same", col[0])
+    if all(isinstance(x, bool) for x in col):
+        a = np.array(col, dtype=bool)
+    elif all(_is_number(x) for x in col):
+        a = np.array(col, dtype=float)
+    else:
+        return _SPLIT
+    a.setflags(write=False)  # shared by the calls of later modules: none may change it in place
+    return ("flags" if a.dtype == bool else "numbers", a)
 
 
 def _signature(c: Ctx, flags: bool) -> tuple:
