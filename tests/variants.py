@@ -67,6 +67,8 @@ VARIANTS: list[tuple[str, str, dict[str, Any]]] = [
     ("low junction rating", CAREFUL, {"switch.low.tj_max": "41 °C"}),
     # no fuse, at an ambient beyond the fuse rerating table: the smallest rating is not computed
     ("unfused hot ambient", NAIVE, {"environment.ambient": "135 °C"}),
+    # a warm enclosure beyond the wire table's ambient: the wire's largest fuse is not computed
+    ("warm enclosure", MAINS, {"environment.ambient": "85 °C"}),
 ]
 
 
