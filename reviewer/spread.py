@@ -120,8 +120,9 @@ def spread_properties(f: Any) -> dict[str, Any]:
 
 
 def yield_cell(f: Any) -> str:
-    """A short yield for a table cell: "97.3 % (96.9 % to 97.6 %)", or "—" without samples."""
+    """A short yield for a table cell: "97.3 % (96.9 % to 97.6 %)", or words where the finding
+    has none (a flag or a question, or no samples drawn)."""
     s = f.spread
     if s is None or s.fraction is None:
-        return "—"
+        return "no yield (not sampled)"
     return f"{_pct(s.fraction)} ({_pct(s.low)} to {_pct(s.high)})"
