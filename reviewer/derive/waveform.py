@@ -114,11 +114,12 @@ def response(spec: wf.Spectrum, circuit: tuple[float, float, float, float | None
 
 
 @lru_cache(maxsize=64)
-def _index_needed(v1_peak: float, kind: str, v_bus: float, f0: float, carrier: float,
-                  gain: float, dead_high: float, dead_low: float, lag: float) -> float:
-    return wf.index_for_fundamental(v1_peak, kind, v_bus, f0, carrier=carrier,  # type: ignore[arg-type]
-                                    gain=gain, dead_time_high=dead_high, dead_time_low=dead_low,
-                                    current_lag=lag)
+def _indices_needed(v1_peak: float, kind: str, buses: tuple[float, ...], f0: float,
+                    carrier: float, gain: float, dead_high: float, dead_low: float,
+                    lag: float) -> tuple[float, ...]:
+    return wf.indices_for_fundamental(v1_peak, kind, buses, f0, carrier=carrier,  # type: ignore[arg-type]
+                                      gain=gain, dead_time_high=dead_high,
+                                      dead_time_low=dead_low, current_lag=lag)
 
 
 @lru_cache(maxsize=64)
@@ -313,9 +314,9 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
     gain = gain_at(f0)
     if pwm and target is not None:
         want = math.sqrt(2) * target / ratio
-        for name, bus in (("waveform.index_needed_bus_min", v_min),
-                          ("waveform.index_needed_bus_max", v_max)):
-            m = _index_needed(want, kind, bus, f0, spec.carrier, gain, dh, dl, lag)
+        needed = _indices_needed(want, kind, (v_min, v_max), f0, spec.carrier, gain, dh, dl, lag)
+        for name, m in zip(("waveform.index_needed_bus_min", "waveform.index_needed_bus_max"),
+                           needed):
             if math.isfinite(m):
                 ctx.publish(name, m)
             else:

@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any, Iterator
 
 ABSOLUTE_ZERO_C = -273.15
@@ -158,11 +159,13 @@ BY_PATH: dict[str, Range] = {
 """Narrower ranges by dotted field path (``*`` matches one table name, e.g. ``high``)."""
 
 
+@lru_cache(maxsize=1024)
 def narrowed(path: str) -> bool:
     """Whether the field at dotted ``path`` has a range of its own in :data:`BY_PATH`."""
     return any(path == p or _matches(p, path) for p in BY_PATH)
 
 
+@lru_cache(maxsize=1024)
 def for_path(path: str, unit: str) -> Range:
     """The range of the field at dotted ``path`` in ``unit``."""
     if path in BY_PATH:

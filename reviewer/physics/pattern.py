@@ -67,6 +67,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 from fractions import Fraction
+from functools import lru_cache
 from typing import Callable, Literal
 
 import numpy as np
@@ -403,9 +404,15 @@ class GateSignals:
         return float(np.min(t)) if t.size else math.inf
 
 
+@lru_cache(maxsize=128)
 def _commanded_legs(kind: Kind, f0: float, *, index: float | None, carrier: float | None,
                     notch: float, zero_state: ZeroState, min_pulse: float,
                     disposition: Literal["pd", "pod"], max_periods: int):
+    """The commanded on-intervals of both legs (short pulses dropped) and the pulse widths.
+
+    Cached on its inputs: the dead time and the current direction act afterwards, so every run
+    that differs only in those (corners, samples) shares one pattern. The arrays are read-only.
+    """
     (aa, ab), (ba, bb), q, fc = leg_intervals(kind, f0, index=index, carrier=carrier,
                                               notch=notch, zero_state=zero_state,
                                               disposition=disposition,
@@ -421,7 +428,9 @@ def _commanded_legs(kind: Kind, f0: float, *, index: float | None, carrier: floa
             pulses.append(b - a)
             pulses.append(gaps(a, b, period))
         legs.append(drop_short(a, b, full, period, min_pulse))
-    return legs, pulses, period, q, fc
+    for x in [*pulses, *(v for leg in legs for v in leg[:2])]:
+        x.setflags(write=False)
+    return tuple(legs), tuple(pulses), period, q, fc
 
 
 def _circle(start: np.ndarray, end: np.ndarray, period: float) -> Intervals:

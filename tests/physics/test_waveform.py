@@ -305,6 +305,75 @@ def test_index_for_fundamental():
     assert wf.index_for_fundamental(1.3 * V, "spwm_bipolar", V, F0, carrier=20_000.0) == math.inf
 
 
+def test_fundamental_of_edges_closed_forms():
+    from reviewer.physics.pattern import bridge_events
+
+    # square wave: fundamental 4/π per volt (Mohan, Undeland & Robbins 2003, ch. 8)
+    a1 = wf.fundamental_of(bridge_events("square", F0))
+    assert a1 == pytest.approx(4 / math.pi, rel=1e-12)
+    # quasi-square: (4/π)·cos α
+    a1 = wf.fundamental_of(bridge_events("quasi_square", F0, notch=0.5))
+    assert a1 == pytest.approx(4 / math.pi * math.cos(0.5), rel=1e-12)
+    # sine PWM in the linear range: exactly M (Holmes & Lipo 2003, ch. 3)
+    for kind in ("spwm_bipolar", "spwm_unipolar"):
+        a1 = wf.fundamental_of(bridge_events(kind, F0, index=0.7, carrier=20 * F0 + 7))
+        assert a1 == pytest.approx(0.7, rel=1e-9)
+
+
+@pytest.mark.parametrize("kind, opts", [
+    ("spwm_bipolar", dict(index=0.9, carrier=16_000.0)),
+    ("spwm_unipolar", dict(index=1.2, carrier=20_000.0)),
+    ("spwm_level_shifted", dict(index=0.8, carrier=10_000.0)),
+    ("quasi_square", dict(notch=0.4)),
+])
+def test_fundamental_of_edges_equals_the_synthesised_bin(kind, opts):
+    from reviewer.physics.pattern import bridge_events
+
+    opts = dict(opts, dead_time_high=500e-9, dead_time_low=700e-9, current_lag=0.4)
+    spec = wf.synthesise(kind, 1.0, F0, **opts)
+    a1 = wf.fundamental_of(bridge_events(kind, F0, **opts))
+    assert abs(a1 - spec.fundamental) < 1e-10
+
+
+def test_indices_for_several_buses_equal_one_solve_each():
+    opts = dict(carrier=20_000.0, dead_time_high=1e-6, dead_time_low=1.5e-6, current_lag=0.3)
+    buses = (10.0, 12.0, 12.0, 15.0, 4.0)
+    got = wf.indices_for_fundamental(0.6 * V, "spwm_unipolar", buses, F0, gain=0.97, **opts)
+    for bus, m in zip(buses, got):
+        alone = wf.index_for_fundamental(0.6 * V, "spwm_unipolar", bus, F0, gain=0.97, **opts)
+        if math.isinf(alone):
+            assert math.isinf(m)  # 7.2 V from a 4 V bus: beyond the square wave's 4/π · 4 V
+            continue
+        assert m == pytest.approx(alone, rel=1e-5)
+        spec = wf.synthesise("spwm_unipolar", bus, F0, index=m, **opts)
+        assert 0.97 * abs(spec.fundamental) == pytest.approx(0.6 * V, rel=1e-6)
+    assert math.isinf(got[-1])
+
+
+def test_index_on_a_step_of_the_fundamental_is_the_smallest_that_reaches_it():
+    # Near the linear range's end, pulses no longer than the dead time vanish one by one, so
+    # the fundamental against the index climbs in small steps; a target on a step has no exact
+    # index, and the answer must be the smallest index that reaches it, not wherever the
+    # iteration stopped.
+    from reviewer.physics.pattern import bridge_events
+
+    opts = dict(carrier=20_000.0, dead_time_high=500e-9, dead_time_low=500e-9,
+                current_lag=0.17)
+
+    def g(m: float) -> float:
+        return abs(wf.fundamental_of(bridge_events("spwm_unipolar", F0, index=m, **opts)))
+
+    ms = np.linspace(1.0, 1.03, 3001)
+    gs = np.array([g(m) for m in ms])
+    k = int(np.argmax(np.diff(gs)))
+    assert gs[k + 1] - gs[k] > 1e-5  # a step, far beyond the solver's tolerance
+    target = 0.5 * (gs[k] + gs[k + 1])
+    m = wf.index_for_fundamental(target * V, "spwm_unipolar", V, F0, **opts)
+    assert g(m) >= target * (1 - 1e-6)
+    assert g(m - 2e-6 * m) < target
+    assert ms[k] <= m <= ms[k + 1]
+
+
 def test_rejects_bad_input():
     with pytest.raises(ValueError):
         wf.synthesise("spwm_bipolar", V, F0, index=0.8)
