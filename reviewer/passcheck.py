@@ -44,6 +44,9 @@ STEPS = 8
 """Most outward steps when the first candidate does not pass."""
 BISECT = 5
 """Bisection steps between the last failing and the first passing value."""
+OVERSHOOT = 0.05
+"""Relative margin beyond which a passing value found by the secant is bisected back toward the
+last failing one (the secant aims at :data:`MARGIN`)."""
 
 
 @dataclass(frozen=True)
@@ -367,11 +370,36 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         stored, _ = _stored(current, x)
         return j.passes({**extra, field: _as_input(field, stored, unit)})
 
+    def back(fail_x: float, pass_x: float, up: bool) -> float | None:
+        """Bisect from a passing value back toward the last failing one, then round."""
+        sign = 1.0 if up else -1.0
+        for _ in range(BISECT):
+            mid = (math.sqrt(fail_x * pass_x) if fail_x > 0 and pass_x > 0
+                   else (fail_x + pass_x) / 2)
+            if test(mid):
+                pass_x = mid
+            else:
+                fail_x = mid
+        for digits in (DIGITS, DIGITS + 1, DIGITS + 2, 8):
+            x = candidate(pass_x * (1 + sign * MARGIN), up, digits)
+            if test(x):
+                return x
+        return None
+
+    def settled(x: float, fail_x: float | None, up: bool) -> Fix:
+        """The fix for passing value ``x``; where it passes by far more than the margin aimed
+        at (a pass formula that overshoots, a secant that leapt across a flat margin), the value
+        nearest the design that passes, bisected back toward the failing ``fail_x``."""
+        m = _relative(judged(x))
+        if fail_x is not None and m is not None and m > OVERSHOOT:
+            x = back(fail_x, x, up) or x
+        return _fix(field, x, current, unit, extra)
+
     firsts = {up: candidate(solved * (1 + (1 if up else -1) * MARGIN) if solved else solved, up)
               for up in directions}
     for up in directions:
         if test(firsts[up]):
-            return _fix(field, firsts[up], current, unit, extra)
+            return settled(firsts[up], cur, up)
     if len(directions) == 2:  # no present value: go the way the margin grows
         m = {up: _relative(judged(firsts[up])) for up in directions}
         if m[True] is not None and m[False] is not None and m[False] > m[True]:
@@ -384,7 +412,7 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         start = [cur] if cur is not None else [firsts[not up]]
         found = _secant(judged, [*start, first], sign, lambda x: candidate(x, up))
         if found is not None:
-            return _fix(field, found, current, unit, extra)
+            return settled(found[0], found[1], up)
         # otherwise step outward until it passes, then bisect back
         fail_x, pass_x = first, None
         step = 0.05
@@ -396,16 +424,9 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
             fail_x, step = x, step * 2
         if pass_x is None:
             continue
-        for _ in range(BISECT):
-            mid = math.sqrt(fail_x * pass_x) if fail_x > 0 and pass_x > 0 else (fail_x + pass_x) / 2
-            if test(mid):
-                pass_x = mid
-            else:
-                fail_x = mid
-        for digits in (DIGITS, DIGITS + 1, DIGITS + 2, 8):
-            x = candidate(pass_x * (1 + sign * MARGIN), up, digits)
-            if test(x):
-                return _fix(field, x, current, unit, extra)
+        x = back(fail_x, pass_x, up)
+        if x is not None:
+            return _fix(field, x, current, unit, extra)
     return None
 
 
@@ -416,8 +437,9 @@ def _relative(got: Finding | None) -> float | None:
 
 
 def _secant(judged: Any, start: list[float], sign: float, rounded: Any,
-            tries: int = 8) -> float | None:
-    """A passing value found from the margins of a limit rule, or None (flags: no margin)."""
+            tries: int = 8) -> tuple[float, float | None] | None:
+    """A passing value found from the margins of a limit rule, or None (flags: no margin):
+    ``(passing value, the last failing value tried or None)``."""
     pts: list[tuple[float, float]] = []
     for x in start:
         m = _relative(judged(x))
@@ -440,7 +462,8 @@ def _secant(judged: Any, start: list[float], sign: float, rounded: Any,
         if got is None:
             return None
         if got.outcome == "pass":
-            return x
+            fails = [x for x, m in pts if m < 0]
+            return x, (fails[-1] if fails else None)
         m = _relative(got)
         if m is None:
             return None

@@ -80,7 +80,7 @@ def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
 def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
               method: str) -> tuple[list[Any], str]:
     """Where the margin is smallest inside an input's tolerance rather than at an end, search
-    that input by golden section with the others at the worst corner found: a margin that is
+    that input by Brent's minimisation with the others at the worst corner found: a margin that is
     not monotonic in an input (a ripple current that peaks at a middle modulation index, say)
     is then not missed. An input is probed (at :data:`LEVELS`, the others typical) where the
     typical run lies below the chord between its two one-at-a-time ends, the sign of a margin
@@ -121,11 +121,11 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
             return float(margins(c, [run]).score[0])
 
         first = runner.insides([(fixed, {**at, p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS])
-        runs.extend(first)  # the probes in one batch, then the golden section one by one
-        t = _golden(f, [float(x) for x in margins(c, first).score])
+        runs.extend(first)  # the probes in one batch, then the minimisation one by one
+        t = _minimise(f, [float(x) for x in margins(c, first).score])
         at[p] = s.lo + t * (s.hi - s.lo)
     return runs, method + (f", and inside the tolerance of {', '.join(bent)} where the margin "
-                           "is smallest away from its ends (golden-section search)")
+                           "is smallest away from its ends (Brent's minimisation)")
 
 
 LEVELS = (0.02, 0.25, 0.5, 0.75, 0.98)
@@ -138,23 +138,63 @@ def _tiny(x: np.ndarray) -> float:
     return 1e-9 * (float(np.max(np.abs(finite))) if finite.size else 1.0)
 
 
-def _golden(f: Any, probes: list[float], steps: int = 12) -> float:
-    """Minimise ``f`` on [0, 1] near the best of its values at :data:`LEVELS`."""
+def _minimise(f: Any, probes: list[float], tol: float = 5e-4, most: int = 16) -> float:
+    """Minimise ``f`` on [0, 1] near the best of its values at :data:`LEVELS` (``probes``).
+
+    Brent's method (R. P. Brent, *Algorithms for Minimization without Derivatives*, 1973,
+    ch. 5, procedure *localmin*): parabolic steps through the best three points where they
+    behave, golden-section steps where they do not, in the bracket of the best probe's two
+    neighbours, to ``tol`` in ``t`` or ``most`` evaluations. A smooth margin takes a few
+    evaluations where golden section alone takes a dozen; a kinked or stepped one still
+    shrinks by golden section. The result is never worse than the best probe.
+    """
     i = int(np.argmin(probes))
     a, b = (LEVELS[i - 1] if i > 0 else 0.0), (LEVELS[i + 1] if i + 1 < len(LEVELS) else 1.0)
-    g = (5 ** 0.5 - 1) / 2
-    x1, x2 = b - g * (b - a), a + g * (b - a)
-    f1, f2 = f(x1), f(x2)
-    for _ in range(steps):
-        if f1 <= f2:
-            b, x2, f2 = x2, x1, f1
-            x1 = b - g * (b - a)
-            f1 = f(x1)
+    x, fx = LEVELS[i], float(probes[i])
+    # the neighbouring probes are the second and third best points of the first parabola
+    near = sorted((float(probes[j]), LEVELS[j]) for j in (i - 1, i + 1) if 0 <= j < len(LEVELS))
+    (fw, w), (fv, v) = (near + [(fx, x)] * 2)[:2]
+    golden = (3 - 5 ** 0.5) / 2
+    d, e = 0.0, b - a  # a parabola through the three probes may be the first step
+    for _ in range(most):
+        m = 0.5 * (a + b)
+        if abs(x - m) <= 2 * tol - 0.5 * (b - a):
+            break
+        parabolic = False
+        if abs(e) > tol:
+            r = (x - w) * (fx - fv)
+            q = (x - v) * (fx - fw)
+            p = (x - v) * q - (x - w) * r
+            q = 2 * (q - r)
+            if q > 0:
+                p = -p
+            q = abs(q)
+            if abs(p) < abs(0.5 * q * e) and q * (a - x) < p < q * (b - x):
+                e, d = d, p / q
+                parabolic = True
+                if (x + d) - a < 2 * tol or b - (x + d) < 2 * tol:
+                    d = tol if x < m else -tol
+        if not parabolic:
+            e = (b - x) if x < m else (a - x)
+            d = golden * e
+        u = x + (d if abs(d) >= tol else (tol if d > 0 else -tol))
+        fu = f(u)
+        if fu <= fx:
+            if u < x:
+                b = x
+            else:
+                a = x
+            v, fv, w, fw, x, fx = w, fw, x, fx, u, fu
         else:
-            a, x1, f1 = x1, x2, f2
-            x2 = a + g * (b - a)
-            f2 = f(x2)
-    return x1 if f1 <= f2 else x2
+            if u < x:
+                a = u
+            else:
+                b = u
+            if fu <= fw or w == x:
+                v, fv, w, fw = w, fw, u, fu
+            elif fu <= fv or v == x or v == w:
+                v, fv = u, fu
+    return x
 
 
 def _search(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any]) -> tuple[list, str]:

@@ -211,3 +211,37 @@ def test_grades_per_boundary_and_double_insulation():
     assert finding(review_text(mains(insulation='"double"')), "isolation.grade").outcome == "pass"
     assert finding(review_text(mains(insulation='"supplementary"')),
                    "isolation.grade").outcome == "fail"
+
+
+def _output(text: str, v_rms: str) -> str:
+    import re
+
+    out, n = re.subn(r'(?m)^v_rms = .*$', f"v_rms = {v_rms}", text, count=1)
+    assert n == 1
+    return out
+
+
+@pytest.mark.parametrize("working, computed", [('"1000 V"', True), ('"1001 V"', False)])
+def test_creepage_threshold_at_the_end_of_table_f4(working, computed):
+    # IEC 60664-1:2007 Table F.4 ends at a 1000 V working voltage: at it the last row applies,
+    # beyond it nothing is extrapolated and the finding says why, in words
+    r = review_text(mains(working_voltage=working))
+    f = finding(r, "isolation.creepage")
+    assert r.sheet.value("isolation.clearance_needed") == pytest.approx(3.0 * MM)  # 253 V system
+    if computed:
+        assert r.sheet.value("isolation.creepage_needed") is not None
+        assert f.outcome in ("pass", "fail")
+    else:
+        assert f.outcome == "needs_data"
+        assert "Table F.4" in " ".join(f.needs) and "qualified person" in " ".join(f.needs)
+
+
+@pytest.mark.parametrize("v_rms", ['"1200 V"', '"990 V ± 5%"'])
+def test_an_output_beyond_the_spacing_tables_is_not_judged(v_rms):
+    # a system voltage above Table F.1's 1000 V (at every corner, or at some corners only):
+    # clearance, creepage and test voltage need the standard itself, never a traceback
+    r = review_text(_output(MAINS, v_rms))
+    for key in ("isolation.clearance", "isolation.creepage", "isolation.test-voltage"):
+        f = finding(r, key)
+        assert f.outcome == "needs_data", (key, f.outcome)
+        assert "IEC 60664-1" in " ".join(f.needs)

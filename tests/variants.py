@@ -69,6 +69,9 @@ VARIANTS: list[tuple[str, str, dict[str, Any]]] = [
     ("unfused hot ambient", NAIVE, {"environment.ambient": "135 °C"}),
     # a warm enclosure beyond the wire table's ambient: the wire's largest fuse is not computed
     ("warm enclosure", MAINS, {"environment.ambient": "85 °C"}),
+    # an output beyond the 1 kV the spacing tables cover: the spacing is not computed, and the
+    # findings say so in words (never a traceback, never an extrapolated value)
+    ("beyond the spacing tables", MAINS, {"output.v_rms": "1200 V"}),
 ]
 
 

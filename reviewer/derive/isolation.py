@@ -15,7 +15,7 @@ import numpy as np
 from reviewer.derive.paths import each, one_path
 from reviewer.physics import spacing
 from reviewer.physics.arrays import or_default, out
-from reviewer.context import Ctx, declare
+from reviewer.context import Ctx, NeedsData, declare
 
 VECTOR = True
 """Array-safe: evaluated once for many points by :meth:`reviewer.quantities.Runner.batch`;
@@ -78,19 +78,35 @@ def derive(ctx: Ctx) -> None:
     grade = "reinforced" if required == "reinforced" else "basic"
     on_board = bool(ctx.v("isolation.barrier_on_board"))
     coated = bool(ctx.v("isolation.coating")) and on_board
+    category = ctx.v("isolation.overvoltage_category")
+    pd = ctx.v("isolation.pollution_degree")
+    pd_used = 1 if coated else pd
+    coat_note = ("; coated board: pollution degree 1 under the coating (IEC 60664-3 type 1 "
+                 "protection, from memory)" if coated else "")
+    # beyond the tables (more than 1 kV) no spacing is computed: said, never extrapolated; the
+    # points of an array call on either side are evaluated in groups
+    system_tabled = bool(one_path(system <= spacing.highest_system_voltage()))
+    working_tabled = bool(one_path(working <= spacing.highest_working_voltage()))
+    clearance = None
     with ctx.section("isolation.rated_impulse", "isolation.clearance_needed",
-                     "isolation.creepage_needed", "isolation.test_voltage_needed"):
-        category = ctx.v("isolation.overvoltage_category")
-        pd = ctx.v("isolation.pollution_degree")
-        pd_used = 1 if coated else pd
+                     "isolation.test_voltage_needed"):
+        if not system_tabled:
+            raise NeedsData(beyond_tables(spacing.highest_system_voltage(), "system", "F.1"))
         ctx.publish("isolation.rated_impulse", spacing.rated_impulse_voltage(system, category))
-        coat_note = ("; coated board: pollution degree 1 under the coating (IEC 60664-3 type 1 "
-                     "protection, from memory)" if coated else "")
         clearance = spacing.clearance_required(system, category, pd_used, grade,
                                                or_default(ctx.v("isolation.altitude"), 0.0))
         ctx.publish("isolation.clearance_needed", clearance,
                     f"{grade} insulation, overvoltage category {category}, pollution degree "
                     f"{pd_used}{coat_note}")
+        ctx.publish("isolation.test_voltage_needed",
+                    spacing.ac_test_voltage(system, grade),
+                    f"{grade}: U_n + 1200 V for basic, twice that for reinforced (IEC 60664-1 "
+                    "5.3.3.2.3 and 6.1.3.4, from memory)")
+    with ctx.section("isolation.creepage_needed"):
+        if not working_tabled:
+            raise NeedsData(beyond_tables(spacing.highest_working_voltage(), "working", "F.4"))
+        if clearance is None:
+            raise NeedsData(beyond_tables(spacing.highest_system_voltage(), "system", "F.1"))
         creepage = spacing.creepage_required(working, min(pd_used, 3),
                                              ctx.v("isolation.material_group"),
                                              printed_wiring=on_board, insulation=grade)
@@ -99,7 +115,10 @@ def derive(ctx: Ctx) -> None:
                  "other than the board")
         ctx.publish("isolation.creepage_needed", spacing.creepage_needed(creepage, clearance),
                     f"{grade}, {where}; never less than the clearance{coat_note}")
-        ctx.publish("isolation.test_voltage_needed",
-                    spacing.ac_test_voltage(system, grade),
-                    f"{grade}: U_n + 1200 V for basic, twice that for reinforced (IEC 60664-1 "
-                    "5.3.3.2.3 and 6.1.3.4, from memory)")
+
+
+def beyond_tables(top: float, which: str, table: str) -> str:
+    """What a design beyond the spacing tables needs, as the needs-data text says it."""
+    return (f"the value from IEC 60664-1 itself: the {which} voltage is above the {top:g} V "
+            f"that its Table {table} covers here (this tool reviews low-voltage designs); "
+            "follow your local codes and have the design examined by a qualified person")

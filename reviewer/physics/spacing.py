@@ -52,6 +52,18 @@ def _interp(xs: tuple[float, ...], ys: tuple[float, ...], x: Any) -> Any:
     return np.interp(at, np.asarray(xs, dtype=float), np.asarray(ys, dtype=float))
 
 
+def highest_system_voltage() -> float:
+    """The highest system voltage IEC 60664-1 Table F.1 lists here [V]: beyond it no rated
+    impulse, clearance or test voltage is computed (the tables cover low-voltage systems)."""
+    return float(tables.load("iec60664_1_impulse")["data"]["system_voltage"][-1])
+
+
+def highest_working_voltage() -> float:
+    """The highest working voltage IEC 60664-1 Table F.4 lists here [V]: beyond it no creepage
+    is computed."""
+    return float(tables.load("iec60664_1_creepage")["data"]["voltage"][-1])
+
+
 def rated_impulse_voltage(system_voltage: Any, category: str) -> Any:
     """Rated impulse voltage for equipment fed from a low-voltage system (steps, no interpolation).
 

@@ -179,3 +179,32 @@ def test_sensitivity_names_the_dead_time_swing(book):
     assert shares == sorted(shares, reverse=True)
     assert "timing.dead_time ±20 % moves this margin by ±25 ns" in sensitivity_line(f)
     assert "one-at-a-time" in f.sensitivity_method
+
+
+@pytest.mark.parametrize("fn", [
+    lambda t: (t - 0.37) ** 2,                        # smooth, inside a middle bracket
+    lambda t: -abs(__import__("math").sin(3.1 * t)),  # a kink at the minimum (t = π/6.2)
+    lambda t: (t - 0.9) ** 4 + 0.01 * t,              # flat bottom near an end
+    lambda t: abs(t - 0.6) + (0.2 if t > 0.61 else 0.0),  # a step beside the minimum
+])
+def test_interior_minimisation_against_scipy(fn):
+    # reference: scipy.optimize.minimize_scalar (bounded Brent) on the same bracket
+    from scipy.optimize import minimize_scalar
+
+    from reviewer.worstcase import LEVELS, _minimise
+
+    calls = []
+
+    def f(t):
+        calls.append(t)
+        return fn(t)
+
+    probes = [fn(t) for t in LEVELS]
+    t = _minimise(f, probes)
+    i = min(range(len(LEVELS)), key=lambda j: probes[j])
+    a = LEVELS[i - 1] if i > 0 else 0.0
+    b = LEVELS[i + 1] if i + 1 < len(LEVELS) else 1.0
+    ref = minimize_scalar(fn, bounds=(a, b), method="bounded", options={"xatol": 1e-6})
+    assert fn(t) <= min(probes)  # never worse than the best probe
+    assert fn(t) <= ref.fun + 1e-3 * (max(probes) - min(probes)) + 1e-9
+    assert len(calls) <= 16  # golden section alone took 14 here
