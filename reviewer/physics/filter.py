@@ -571,10 +571,9 @@ def corner_for_thd(freq: "np.ndarray", v_bridge: "np.ndarray", f0: float, target
 
     lo, hi = 1.2 * f0, float(np.max(f))
     grid = np.geomspace(hi, lo, 60)
-    ok = [thd_at(x) <= target for x in grid]
-    if not any(ok):
+    i = next((k for k, x in enumerate(grid) if thd_at(x) <= target), None)  # the first from the top
+    if i is None:
         return math.nan, math.nan, math.nan
-    i = ok.index(True)
     if i == 0:
         best = float(grid[0])
     else:
@@ -641,10 +640,9 @@ def carrier_for_thd(freq: "np.ndarray", v_bridge: "np.ndarray", f0: float, carri
         return thd_band(np.abs(fn), h * a, f0, max_order)
 
     grid = np.geomspace(max(20 * f0, carrier / 8), 64 * carrier, 60)
-    ok = [thd_at(x) <= target for x in grid]
-    if not any(ok):
+    i = next((k for k, x in enumerate(grid) if thd_at(x) <= target), None)  # the lowest passing
+    if i is None:
         return math.nan
-    i = ok.index(True)
     if i == 0:
         return float(grid[0])
     bad, good = float(grid[i - 1]), float(grid[i])
