@@ -312,7 +312,16 @@ def find_fix(design: Any, c: Any, f: Finding, answers: dict[str, Any],
     field = f.pass_field
     if field not in values:
         return None
-    start = _stored(values[field], f.pass_value)[0]
+    # probe with the first value the search will test (the solved one, moved by the margin and
+    # rounded toward passing) where there is a direction to take: the search then finds that
+    # design's sheet made
+    probe = f.pass_value
+    cur = _number(values[field])
+    if cur is not None and f.pass_value is not None and f.pass_value != cur:
+        first = _first(values[field], f.pass_value, f.pass_value >= cur)
+        if first != cur and first > 0:
+            probe = first
+    start = _stored(values[field], probe)[0]
     if not _moves(j, f, {field: _as_input(field, start, units.get(field, ""))}):
         # The field is inert here: look for the setting that overrides it.
         for other in (*OVERRIDES.get(field, ()), *c.fields):
@@ -347,16 +356,11 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         return None
     current = values[field]
     unit = units.get(field, "")
-    cur = current.typ if isinstance(current, Span) else (
-        float(current) if isinstance(current, (int, float)) and not isinstance(current, bool)
-        else None)
-    integer = isinstance(current, int) and not isinstance(current, bool)
+    cur = _number(current)
     directions = [solved >= cur] if cur is not None and solved != cur else [True, False]
 
     def candidate(x: float, up: bool, digits: int = DIGITS) -> float:
-        if integer:
-            return float(math.ceil(x - 1e-9) if up else math.floor(x + 1e-9))
-        return round_toward(x, up, digits)
+        return _rounded(current, x, up, digits)
 
     def judged(x: float) -> Finding | None:
         if x <= 0:  # every field a pass value is for is a positive size, rating or time
@@ -395,8 +399,7 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
             x = back(fail_x, x, up) or x
         return _fix(field, x, current, unit, extra)
 
-    firsts = {up: candidate(solved * (1 + (1 if up else -1) * MARGIN) if solved else solved, up)
-              for up in directions}
+    firsts = {up: _first(current, solved, up) for up in directions}
     for up in directions:
         if test(firsts[up]):
             return settled(firsts[up], cur, up)
@@ -428,6 +431,29 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         if x is not None:
             return _fix(field, x, current, unit, extra)
     return None
+
+
+def _number(current: Any) -> float | None:
+    """A field's present value as a number (a toleranced one's typical), or None."""
+    from reviewer.units import Span
+
+    if isinstance(current, Span):
+        return current.typ
+    if isinstance(current, (int, float)) and not isinstance(current, bool):
+        return float(current)
+    return None
+
+
+def _rounded(current: Any, x: float, up: bool, digits: int = DIGITS) -> float:
+    """``x`` rounded toward passing as the field takes it: whole numbers for a count."""
+    if isinstance(current, int) and not isinstance(current, bool):
+        return float(math.ceil(x - 1e-9) if up else math.floor(x + 1e-9))
+    return round_toward(x, up, digits)
+
+
+def _first(current: Any, solved: float, up: bool) -> float:
+    """The first value tried: the solved one moved by :data:`MARGIN` toward passing, rounded."""
+    return _rounded(current, solved * (1 + (1 if up else -1) * MARGIN) if solved else solved, up)
 
 
 def _relative(got: Finding | None) -> float | None:
