@@ -42,8 +42,10 @@ DIGITS = 3
 """Significant figures a value is shown with (see :func:`reviewer.units.render`)."""
 STEPS = 8
 """Most outward steps when the first candidate does not pass."""
-BISECT = 5
-"""Bisection steps between the last failing and the first passing value."""
+BISECT = 14
+"""Most bisection steps between the last failing and the first passing value."""
+CLOSE = 0.02
+"""Bisection stops where the passing and the failing value lie this close [ratio]."""
 OVERSHOOT = 0.05
 """Relative margin beyond which a passing value found by the secant is bisected back toward the
 last failing one (the secant aims at :data:`MARGIN`)."""
@@ -378,6 +380,8 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         """Bisect from a passing value back toward the last failing one, then round."""
         sign = 1.0 if up else -1.0
         for _ in range(BISECT):
+            if abs(pass_x - fail_x) <= CLOSE * abs(pass_x):
+                break
             mid = (math.sqrt(fail_x * pass_x) if fail_x > 0 and pass_x > 0
                    else (fail_x + pass_x) / 2)
             if test(mid):
