@@ -102,6 +102,8 @@ def gate_voltage_after(v_start, capacitance, q_gate, i_dc, t_on, r_load=np.inf):
     current I (driver quiescent + leakage) and a resistive load R across the capacitor's
     output (a gate-source pull resistor) discharge it:
     dV/dt = −(I + V/R)/C, so V(t) = (V₀ + I·R)·e^(−t/RC) − I·R, or V₀ − I·t/C without R.
+    A capacitor cannot discharge below zero: once its charge runs out the gate has nothing left
+    (the driver's output collapses), so the result is never below 0 V.
 
     Parameters
     ----------
@@ -123,7 +125,7 @@ def gate_voltage_after(v_start, capacitance, q_gate, i_dc, t_on, r_load=np.inf):
         finite = np.isfinite(r)
         rr = np.where(finite, r, 1.0)
         v_r = (v0 + i * rr) * np.exp(-t / (rr * c)) - i * rr
-    return _out(np.where(finite, v_r, v0 - i * t / c))
+    return _out(np.maximum(np.where(finite, v_r, v0 - i * t / c), 0.0))
 
 
 def refresh_charge(capacitance, r_charge, t_refresh, deficit):

@@ -111,3 +111,10 @@ def test_refresh_charge_and_shortest_refresh_by_hand_and_on_arrays():
     out = b.shortest_refresh_time("spwm_unipolar", 50.0, index=np.array([0.9, 1.0, 1.2]), f_carrier=20e3)
     np.testing.assert_allclose(out, [2.5e-6, 0.0, 0.0])
     assert b.shortest_refresh_time("square", 50.0, t_dead=1e-6) == pytest.approx(10e-3 - 1e-6)
+
+
+def test_gate_voltage_never_below_an_empty_capacitor():
+    # charge balance (above) would give 11.3 − 20 nC/10 nF − 1 mA·10 ms/10 nF < 0; a capacitor
+    # holds no negative charge: the gate is left with 0 V (physical fact)
+    assert bs.gate_voltage_after(11.3, 10e-9, 20e-9, 1e-3, 10e-3) == 0.0
+    assert bs.gate_voltage_after(11.3, 10e-9, 20e-9, 1e-3, 10e-3, 10e3) == 0.0
