@@ -140,3 +140,27 @@ def test_bootstrap_diode_rating(rating, outcome):
     f = finding(review_text(spwm_boot("0.9", ("bootstrap", "diode_rating", f'"{rating}"'))),
                 "bootstrap.diode-rating")
     assert f.outcome == outcome and f.limit == pytest.approx(24.0)
+
+
+# The capacitor empties within the on-time where V₀ − I_q·t_on/C ≤ 0 with V₀ = 11.3 V − Q_g/C:
+# C = (Q_g + I_q·t_on)/11.3 V = 1.04 µC/11.3 V = 92.04 nF (charge balance, hand calculation).
+C_EMPTY = (40e-9 + 100e-6 * 10e-3) / (12 - 0.7)
+
+
+@pytest.mark.parametrize("scale, empties", [(0.5, True), (0.99, True), (1.01, False), (2.0, False)])
+def test_capacitor_that_runs_out_of_charge_is_said_in_words(scale, empties):
+    f = finding(review_text(boot(scale * C_EMPTY)), "bootstrap.gate-droop")
+    assert (f.outcome, f.severity) == ("fail", "hazard")
+    assert f.value >= 0.0  # never a negative gate voltage
+    assert ("runs out of charge" in f.mitigation) == empties
+    assert ("has sagged to" in f.mitigation) == (not empties)
+    assert "sagged to -" not in f.mitigation and "−" not in f.mitigation  # no negative figure
+    # the pass value still is the charge balance C_min, and it passes when entered
+    assert f.pass_solved == pytest.approx(C_MIN, rel=1e-9)
+    assert finding(review_text(boot(f.pass_solved)), "bootstrap.gate-droop").outcome == "pass"
+    if empties:
+        assert f.value == 0.0
+    else:
+        # V₀ − I_q·t_on/C with V₀ = 11.3 − Q_g/C: the sag of a linear discharge (hand calculation)
+        c = scale * C_EMPTY
+        assert f.value == pytest.approx(11.3 - (40e-9 + 1e-6) / c, rel=1e-6)
