@@ -5,8 +5,8 @@ Each module has ``QUANTITIES`` (what it may publish, declared with unit and labe
 one published with ``ctx.q(name)``.
 """
 
-from reviewer.derive import (band, bootstrap, bus, gate, grounding, isolation, layout, operating,
-                             protection, stress, switching, thermal, waveform)
+from reviewer.derive import (band, bootstrap, bus, gate, grounding, index, isolation, layout,
+                             operating, protection, stress, switching, thermal, waveform)
 
-MODULES = [operating, waveform, band, gate, switching, stress, thermal, bootstrap, bus, protection,
+MODULES = [operating, waveform, index, band, gate, switching, stress, thermal, bootstrap, bus, protection,
            isolation, layout, grounding]

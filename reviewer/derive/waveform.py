@@ -38,8 +38,7 @@ QUANTITIES = declare(
     ("waveform.output_at_bus_max_no_load", "V", "RMS at the output at the highest bus with the load removed, open loop"),
     ("waveform.output_low_limit", "V", "Lowest RMS output the tolerance allows"),
     ("waveform.output_high_limit", "V", "Highest RMS output the tolerance allows"),
-    ("waveform.index_needed_bus_min", "", "Modulation index for the target output at the lowest bus"),
-    ("waveform.index_needed_bus_max", "", "Modulation index for the target output at the highest bus"),
+    ("waveform.output_gain", "", "Gain from the bridge to the load at the output frequency, loaded (1 without a filter)"),
     ("waveform.ripple_frequency", "Hz", "Frequency of the inductor ripple (first carrier group)"),
     ("waveform.short_pulse_fraction", "%", "Share of the commanded pulses shorter than the minimum pulse"),
     ("waveform.index_limit_min_pulse", "", "Largest index whose pulses all exceed the minimum pulse"),
@@ -114,15 +113,6 @@ def response(spec: wf.Spectrum, circuit: tuple[float, float, float, float | None
 
 
 @lru_cache(maxsize=64)
-def _indices_needed(v1_peak: float, kind: str, buses: tuple[float, ...], f0: float,
-                    carrier: float, gain: float, dead_high: float, dead_low: float,
-                    lag: float) -> tuple[float, ...]:
-    return wf.indices_for_fundamental(v1_peak, kind, buses, f0, carrier=carrier,  # type: ignore[arg-type]
-                                      gain=gain, dead_time_high=dead_high,
-                                      dead_time_low=dead_low, current_lag=lag)
-
-
-@lru_cache(maxsize=64)
 def _corner_for_thd(spec: wf.Spectrum, target: float, z0: float, r: float | None,
                     l_load: float) -> tuple[float, float, float]:
     return flt.corner_for_thd(spec.freq, spec.amp, spec.f0, target, z0, load_resistance=r,
@@ -166,6 +156,17 @@ def _ripple_frequency(kind: str, f0: float, carrier: float | None) -> float:
     return carrier  # type: ignore[return-value]
 
 
+def dead_times(ctx: Ctx) -> tuple[Any, Any]:
+    """Dead time before a high-side and a low-side switch turns on [s] (array-safe)."""
+    dead = ctx.v("timing.dead_time")
+    dead = 0.0 if dead is None else dead
+    dh = ctx.v("timing.dead_time_high")
+    dl = ctx.v("timing.dead_time_low")
+    if ctx.v("drive.shared_signal"):
+        return 0.0, 0.0  # one signal and its inverse feed the leg: timing.dead_time has no effect
+    return (dead if dh is None else dh), (dead if dl is None else dl)
+
+
 def derive(ctx: Ctx) -> None:
     names = [d.pattern for d in QUANTITIES]
     with ctx.section(*names):
@@ -185,13 +186,7 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
         index, carrier = ctx.need("modulation.index", "modulation.carrier")
     elif kind == "quasi_square":
         notch = ctx.need("modulation.notch_angle")
-    dead = ctx.v("timing.dead_time") or 0.0
-    dh = ctx.v("timing.dead_time_high")
-    dl = ctx.v("timing.dead_time_low")
-    dh = dead if dh is None else dh
-    dl = dead if dl is None else dl
-    if ctx.v("drive.shared_signal"):
-        dh = dl = 0.0  # one signal and its inverse feed the leg: timing.dead_time has no effect
+    dh, dl = dead_times(ctx)
     min_pulse = ctx.v("modulation.min_pulse") or 0.0
     ratio = ctx.q("op.transformer_ratio")
     v_nom, v_min, v_max = ctx.q("op.bus_nom"), ctx.q("op.bus_min"), ctx.q("op.bus_max")
@@ -312,15 +307,7 @@ def _derive(ctx: Ctx) -> None:  # noqa: C901 - one straight pass over the quanti
                                         damping_capacitance=circuit[6], esr=esr)))
 
     gain = gain_at(f0)
-    if pwm and target is not None:
-        want = math.sqrt(2) * target / ratio
-        needed = _indices_needed(want, kind, (v_min, v_max), f0, spec.carrier, gain, dh, dl, lag)
-        for name, m in zip(("waveform.index_needed_bus_min", "waveform.index_needed_bus_max"),
-                           needed):
-            if math.isfinite(m):
-                ctx.publish(name, m)
-            else:
-                ctx.publish(name, math.inf, "the target cannot be reached even over-modulated")
+    ctx.publish("waveform.output_gain", gain, loss_note)
 
     if pwm:
         if min_pulse > 0:
