@@ -82,29 +82,41 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
     """Where the margin is smallest inside an input's tolerance rather than at an end, search
     that input by Brent's minimisation with the others at the worst corner found: a margin that is
     not monotonic in an input (a ripple current that peaks at a middle modulation index, say)
-    is then not missed. An input is probed (at :data:`LEVELS`, the others typical) where the
-    typical run lies below the chord between its two one-at-a-time ends, the sign of a margin
-    that bends down between them; the yield self-check covers what this misses."""
+    is then not missed. Every input is probed, the others typical: at :data:`LEVELS` where the
+    typical run lies below the chord between its two one-at-a-time ends (the sign of a margin
+    that bends down between them), else at :data:`EDGE_LEVELS`, just inside each end (a margin
+    that dips there, distortion where pulses start to be dropped near the top of the index
+    range, shows no bend at typical; the chord test alone missed it). The yield self-check
+    covers what the probes miss."""
     score = margins(c, runs).score
     worst = runs[int(np.argmin(score))]
     corner = dict(worst.label) if all(e in ENDS for _, e in worst.label) else {}
-    bent: list[str] = []
     typical = float(score[0])
+    probed: list[tuple[str, tuple[float, ...]]] = []
     for i, p in enumerate(deps):
         s = runner.spans[p]
         lo, hi = float(score[1 + 2 * i]), float(score[2 + 2 * i])
         if not np.isfinite(typical) or not np.isfinite([lo, hi]).any() or s.hi <= s.lo:
             continue  # not applicable or not computable at typical or either end
+        levels = LEVELS
         if np.isfinite([lo, hi]).all():
             chord = lo + (s.typ - s.lo) / (s.hi - s.lo) * (hi - lo)
             if typical >= chord - _tiny(np.array([lo, hi, typical])):
-                continue  # typical on or above the chord of the ends: no dip shows; not probed
-        # else one end is not applicable or not computable (a thermal runaway, say): the margin
-        # may fall all the way to that edge, so the inside is always probed
-        probe = runner.insides([({}, {p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS])
-        ends = runner.corners_at(((p, e),) for e in ENDS)
-        inner = margins(c, probe).score
-        outer = margins(c, ends).score
+                levels = EDGE_LEVELS  # no bend shows at typical: just inside each end only
+        # (one end not applicable or not computable, a thermal runaway say: the margin may
+        # fall all the way to that edge, so the whole inside is probed)
+        probed.append((p, levels))
+    # every input's probes and ends in one batch (an array-evaluating module runs once for all)
+    probes = runner.insides([({}, {p: runner.spans[p].lo + t * (runner.spans[p].hi
+                                                                  - runner.spans[p].lo)})
+                             for p, levels in probed for t in levels])
+    ends = runner.corners_at(((p, e),) for p, _ in probed for e in ENDS)
+    bent: list[str] = []
+    start = 0
+    for k, (p, levels) in enumerate(probed):
+        inner = margins(c, probes[start:start + len(levels)]).score
+        start += len(levels)
+        outer = margins(c, ends[k * len(ENDS):(k + 1) * len(ENDS)]).score
         inner, outer = inner[inner < np.inf], outer[outer < np.inf]  # where it applies
         if inner.size and outer.size and inner.min() < outer.min() - _tiny(outer):
             bent.append(p)
@@ -128,6 +140,8 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
                            "is smallest away from its ends (Brent's minimisation)")
 
 
+EDGE_LEVELS = (0.02, 0.98)
+"""The probes of an input whose typical run shows no bend: just inside each end."""
 LEVELS = (0.02, 0.25, 0.5, 0.75, 0.98)
 """Interior probes of each input, as fractions of its tolerance from min to max (the first and
 last show a margin that falls on leaving an end: a minimum just inside it)."""
