@@ -509,8 +509,9 @@ def fundamentals(kind: Kind, f0: float, *, index: "np.ndarray | float", carrier:
     Each element of the broadcast ``index``, dead times and ``current_lag`` is one pattern;
     the result equals ``abs(fundamental_of(bridge_events(...)))`` of that element to rounding.
     The edges of every pattern come from one array computation
-    (:mod:`reviewer.physics.edges`); a pattern whose dead time swallows a pulse or runs two
-    together is computed by :func:`reviewer.physics.pattern.bridge_events` instead.
+    (:mod:`reviewer.physics.edges`, pulses the dead time swallows included); a pattern whose
+    dead time reorders its edges, or leaves no pulse, is computed by
+    :func:`reviewer.physics.pattern.bridge_events` instead.
 
     Parameters
     ----------

@@ -51,22 +51,70 @@ def test_fundamentals_equal_the_scalar_path(kind, seed):
                                        rel=1e-12, abs=1e-12)
 
 
-def test_a_swallowed_pulse_is_left_to_the_scalar_path():
+def test_a_swallowed_pulse_is_dropped_in_the_array_path():
     # A 5 µs dead time against 1.25 µs pulses at M = 0.95, 20 kHz, the current against the
-    # voltage (lag 3 rad: the narrowest pulses start late and vanish): the rows are not exact
-    # in the array path and the scalar path computes them (same value either way). At M = 0.5
-    # the narrowest pulse is 12.5 µs and survives.
+    # voltage (lag 3 rad: the narrowest pulses start late and vanish): the array path drops
+    # them as the scalar path's union does, and is exact (same value as the scalar path). At
+    # M = 0.5 the narrowest pulse is 12.5 µs and survives.
     m = np.array([0.5, 0.95, 0.95])
     d = np.full(3, 5e-6)
     lag = np.full(3, 3.0)
     a, b, period, q = edges.commanded("spwm_bipolar", F0, m, 20_000.0)
     _, ok = edges.leg_fundamental(a, period, q, 1.0, 0.0, d, d, lag)
-    assert ok.tolist() == [True, False, False]
+    assert ok.tolist() == [True, True, True]
     got = wf.fundamentals("spwm_bipolar", F0, index=m, carrier=20_000.0, dead_time_high=d,
                           dead_time_low=d, current_lag=lag)
     for i in range(3):
         assert got[i] == pytest.approx(scalar("spwm_bipolar", m[i], 20_000.0, 5e-6, 5e-6, 3.0,
                                               0.0), rel=1e-12)
+    # pulses did vanish at M = 0.95 (fewer steps than commanded edges of both legs)
+    ev = bridge_events("spwm_bipolar", F0, index=0.95, carrier=20_000.0, dead_time_high=5e-6,
+                       dead_time_low=5e-6, current_lag=3.0)
+    assert ev.times.size < a.shape[1] + b.shape[1]
+
+
+def test_a_pattern_left_without_pulses_is_left_to_the_scalar_path():
+    # Level-shifted carriers at M = 0.0027 and a 3 µs minimum pulse: every commanded pulse of
+    # a leg is shorter than the minimum and dropped; the array path leaves such a row to the
+    # scalar path (same value either way).
+    m = np.array([0.5, 0.0026760647442163332, 0.5])
+    dh, dl, lag = np.full(3, 3.197e-7), np.zeros(3), np.full(3, -2.2435524343903293)
+    a, b, period, q = edges.commanded("spwm_level_shifted", F0, m, 1000.0)
+    _, ok_a = edges.leg_fundamental(a, period, q, 1.0, 3e-6, dh, dl, lag)
+    _, ok_b = edges.leg_fundamental(b, period, q, -1.0, 3e-6, dh, dl, lag)
+    assert (ok_a & ok_b).tolist() == [True, False, True]
+    got = wf.fundamentals("spwm_level_shifted", F0, index=m, carrier=1000.0, dead_time_high=dh,
+                          dead_time_low=dl, current_lag=lag, min_pulse=3e-6)
+    for i in range(3):
+        assert got[i] == pytest.approx(scalar("spwm_level_shifted", m[i], 1000.0, dh[i], dl[i],
+                                              lag[i], 3e-6), rel=1e-12, abs=1e-12)
+
+
+@pytest.mark.parametrize("seed", range(12))
+def test_long_dead_times_are_exact_in_the_array_path(seed):
+    # Dead times up to 40 µs against carriers of 1 to 20 kHz, either current direction, with
+    # and without a minimum pulse: pulses vanish and intervals run together. Every row equals
+    # the scalar path, and nearly every row is computed by the array path itself.
+    rng = np.random.default_rng(100 + seed)
+    kind = ["spwm_bipolar", "spwm_unipolar", "spwm_level_shifted"][seed % 3]
+    fc = F0 * float(rng.choice([20.0, 97.3, 400.0]))
+    gain_max = 2.0 if kind == "spwm_level_shifted" else 1.0
+    top = min(3.0, 0.85 * 2 * fc / F0 / (math.pi * gain_max))
+    n = 16
+    m = rng.uniform(0.05, top, n)
+    base = float(rng.choice([1e-6, 5e-6, 2e-5]))
+    dh, dl = base * rng.uniform(0, 2, n), base * rng.uniform(0, 2, n)
+    lag = rng.uniform(-3.2, 3.2, n)
+    mp = float(rng.choice([0.0, 1e-6]))
+    a, b, period, q = edges.commanded(kind, F0, m, fc)
+    _, ok_a = edges.leg_fundamental(a, period, q, 1.0, mp, dh, dl, lag)
+    _, ok_b = edges.leg_fundamental(b, period, q, -1.0, mp, dh, dl, lag)
+    assert (ok_a & ok_b).sum() >= n - 2
+    got = wf.fundamentals(kind, F0, index=m, carrier=fc, dead_time_high=dh, dead_time_low=dl,
+                          current_lag=lag, min_pulse=mp)
+    for i in range(n):
+        assert got[i] == pytest.approx(scalar(kind, m[i], fc, dh[i], dl[i], lag[i], mp),
+                                       rel=1e-12, abs=1e-12)
 
 
 def test_array_edges_refuse_what_the_scalar_path_refuses():
