@@ -18,7 +18,7 @@ from reviewer.quantities import Run, Sheet
 from reviewer.rulebook.loader import Compiled, Rulebook, placeholders
 from reviewer.sensitivity import METHOD, swings, wanted
 from reviewer.shown import distinct, figure
-from reviewer.worstcase import prefetch, runs_for
+from reviewer.worstcase import runs_for, search_all
 
 __all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text", "corner_text"]
 
@@ -26,9 +26,11 @@ __all__ = ["SLACK", "evaluate", "judge", "finding_at", "runs_of", "render_text",
 def evaluate(book: Rulebook, sheet: Sheet, answers: dict[str, Any] | None = None) -> list[Finding]:
     """Judge every rule; ``answers`` maps checklist question ids to ("yes"|"no"|"not_applicable", note)."""
     answers = answers or {}
-    if sheet.runner is not None:  # the corners the rules share, made in one batch
-        prefetch([c for c in book.compiled if _applies_known(c, sheet)], sheet.runner)
-    return [judge(c, sheet, answers) for c in book.compiled]
+    searched: dict[int, tuple[list[Run], str]] = {}
+    if sheet.runner is not None:  # every rule's worst-case search side by side, batch by batch
+        wanted = [c for c in book.compiled if c.rule.kind != "question" and _applies_known(c, sheet)]
+        searched = {id(c): got for c, got in zip(wanted, search_all(wanted, sheet.runner))}
+    return [judge(c, sheet, answers, searched=searched.get(id(c))) for c in book.compiled]
 
 
 def _applies_known(c: Compiled, sheet: Sheet) -> bool:
@@ -80,9 +82,11 @@ def _needs(sheet: Sheet, names: frozenset[str]) -> list[str]:
 
 
 def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any],
-          sensitivity: bool = True) -> Finding:
+          sensitivity: bool = True, searched: tuple[list[Run], str] | None = None) -> Finding:
     """Rule ``c`` judged on ``sheet`` at its worst run; with ``sensitivity`` False, without the
-    sensitivity ranking (a caller that wants the verdict and its numbers only)."""
+    sensitivity ranking (a caller that wants the verdict and its numbers only). ``searched``:
+    the runs and method of its worst-case search, made already (:func:`evaluate` runs every
+    rule's search side by side); None: searched here."""
     rule = c.rule
     if rule.kind == "question":
         return _question(c, answers)
@@ -90,7 +94,7 @@ def judge(c: Compiled, sheet: Sheet, answers: dict[str, Any],
         needs = _needs(sheet, c.applies.names - set(c.params))
         if needs:
             return _base(c, "needs_data", needs=tuple(dict.fromkeys(needs)))
-    runs, method = runs_of(c, sheet)
+    runs, method = searched if searched is not None else runs_of(c, sheet)
     needs = _needs(sheet, rule_names(c, applies=False))
     m = margins(c, runs, verdict=not needs)
     if not m.applies.any():

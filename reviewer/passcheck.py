@@ -232,23 +232,33 @@ class _Judge:
         """Whether the finding passes on the design with ``changes``. Stops early: a run among
         the typical, the one-at-a-time ends and the vertices that already fails the rule means
         the finding fails (its worst run is at least as bad), with no further search."""
+        return self.trial(changes)[0]
+
+    def trial(self, changes: dict[str, Any]) -> tuple[bool, float | None]:
+        """:meth:`passes`, and the relative margin (margin over the limit's size) it was judged
+        on: the finding's where it was judged whole, else the worst of the early stop's runs (no
+        better than the finding's: a guide for where to try next, not a verdict); None where
+        there is no margin (a flag rule, a design that is not valid)."""
         key = tuple(sorted((k, repr(v)) for k, v in changes.items()))
         if key not in self.cache:
             sheet = self._sheet(key, changes)
             if sheet is None:
-                return False
+                return False, None
             try:
-                if _fails_somewhere(self.c, sheet.runner):
-                    return False
+                early = _fails_somewhere(self.c, sheet.runner)
             except (ArithmeticError, ValueError):
-                return False
+                return False, None
+            if early is not None:
+                return False, early
         got = self.judged(changes)
-        return got is not None and got.outcome == "pass"
+        return got is not None and got.outcome == "pass", _relative(got)
 
 
-def _fails_somewhere(c: Any, runner: Any) -> bool:
+def _fails_somewhere(c: Any, runner: Any) -> float | None:
     """Whether rule ``c`` fails in a run of the first stage of its worst-case search (the
-    typical run, the one-at-a-time ends and, for few inputs, every vertex): then it fails."""
+    typical run, the one-at-a-time ends and, for few inputs, every vertex): then it fails, and
+    the relative margin of the worst of those runs is returned (NaN for a flag rule); None where
+    none of them fails."""
     import itertools
 
     from reviewer.margins import margins, rule_names
@@ -260,7 +270,14 @@ def _fails_somewhere(c: Any, runner: Any) -> bool:
         wanted += [tuple(zip(deps, combo)) for combo in itertools.product(ENDS, repeat=len(deps))]
     runs = [runner.typical, *runner.corners_at(wanted)]
     m = margins(c, runs)
-    return any(m.failed(i) for i in range(len(runs)))
+    failed = [i for i in range(len(runs)) if m.failed(i)]
+    if not failed:
+        return None
+    if m.limit is None:
+        return math.nan
+    worst = min(failed, key=lambda i: float(m.margin[i]))
+    size = abs(float(m.limit[worst]))
+    return float(m.margin[worst]) / size if size and math.isfinite(size) else math.nan
 
 
 def _modules_for(c: Any) -> list[Any]:
@@ -376,18 +393,17 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         stored, _ = _stored(current, x)
         return j.passes({**extra, field: _as_input(field, stored, unit)})
 
+    def trial(x: float) -> tuple[bool, float | None]:
+        if x <= 0:
+            return False, None
+        stored, _ = _stored(current, x)
+        return j.trial({**extra, field: _as_input(field, stored, unit)})
+
     def back(fail_x: float, pass_x: float, up: bool) -> float | None:
-        """Bisect from a passing value back toward the last failing one, then round."""
+        """Close in from a passing value on the last failing one, to within :data:`CLOSE`
+        (see :func:`_closer`), then round."""
         sign = 1.0 if up else -1.0
-        for _ in range(BISECT):
-            if abs(pass_x - fail_x) <= CLOSE * abs(pass_x):
-                break
-            mid = (math.sqrt(fail_x * pass_x) if fail_x > 0 and pass_x > 0
-                   else (fail_x + pass_x) / 2)
-            if test(mid):
-                pass_x = mid
-            else:
-                fail_x = mid
+        fail_x, pass_x = _closer(trial, fail_x, pass_x)
         for digits in (DIGITS, DIGITS + 1, DIGITS + 2, 8):
             x = candidate(pass_x * (1 + sign * MARGIN), up, digits)
             if test(x):
@@ -435,6 +451,73 @@ def _search(j: _Judge, values: dict[str, Any], units: dict[str, str], field: str
         if x is not None:
             return _fix(field, x, current, unit, extra)
     return None
+
+
+def _closer(trial: Any, fail_x: float, pass_x: float) -> tuple[float, float]:
+    """Shrink the bracket from the failing ``fail_x`` to the passing ``pass_x`` until the two
+    lie within :data:`CLOSE` of each other (or :data:`BISECT` trials are spent); the new
+    bracket. ``trial(x)`` says whether ``x`` passes and its relative margin (or None).
+
+    Brent's root finder on the margin (R. P. Brent, *Algorithms for Minimization without
+    Derivatives*, 1973, ch. 4, procedure *zero*): inverse quadratic interpolation or the secant
+    where they behave, bisection where they do not, and never a step shorter than the
+    tolerance, so the last steps land just either side of the root. It works in log x for
+    positive values (sizes and times: a margin that goes with a power of the value is smoother
+    there). A passing trial counts as a positive margin and a failing one as negative, whatever
+    the margin says (an early stop's margin is only an upper bound); without a margin (a flag
+    rule) it is ±1, and the steps are bisections."""
+    logs = fail_x > 0 and pass_x > 0
+    to_u = math.log if logs else (lambda v: v)
+    from_u = math.exp if logs else (lambda v: v)
+    tiny = 1e-12
+
+    def f(x: float) -> float:
+        ok, m = trial(x)
+        if m is None or not math.isfinite(m):
+            m = 1.0 if ok else -1.0
+        return max(m, tiny) if ok else min(m, -tiny)
+
+    def close(x: float, y: float) -> bool:
+        return abs(x - y) <= CLOSE * max(abs(x), abs(y))
+
+    a, b = to_u(fail_x), to_u(pass_x)
+    fa, fb = f(fail_x), f(pass_x)
+    c, fc = a, fa
+    d = e = b - a
+    for _ in range(BISECT + 1):
+        if (fb > 0) == (fc > 0):
+            c, fc = a, fa
+            d = e = b - a
+        if abs(fc) < abs(fb):
+            a, b, c = b, c, b
+            fa, fb, fc = fb, fc, fb
+        xb, xc = from_u(b), from_u(c)
+        if close(xb, xc):
+            break
+        tol = 0.45 * CLOSE * (1.0 if logs else abs(b))
+        m = 0.5 * (c - b)
+        if abs(e) >= tol and abs(fa) > abs(fb):
+            s = fb / fa
+            if a == c:  # the secant
+                p, q = 2 * m * s, 1 - s
+            else:  # inverse quadratic interpolation
+                q, r = fa / fc, fb / fc
+                p = s * (2 * m * q * (q - r) - (b - a) * (r - 1))
+                q = (q - 1) * (r - 1) * (s - 1)
+            if p > 0:
+                q = -q
+            p = abs(p)
+            if 2 * p < min(3 * m * q - abs(tol * q), abs(e * q)):
+                e, d = d, p / q
+            else:
+                d = e = m
+        else:
+            d = e = m
+        a, fa = b, fb
+        b += d if abs(d) > tol else math.copysign(tol, m)
+        fb = f(from_u(b))
+    x1, x2 = from_u(b), from_u(c)
+    return (x2, x1) if fb > 0 else (x1, x2)
 
 
 def _number(current: Any) -> float | None:

@@ -290,26 +290,19 @@ class Runner:
     def insides(self, wanted: list[tuple[dict[str, str], dict[str, float]]]) -> list[Run]:
         """Many kept inside runs (see :meth:`inside`), those not made yet made in one
         :meth:`batch` call."""
-        keys = [(tuple(sorted(corner.items())), tuple(sorted(at.items())))
-                for corner, at in wanted]
-        todo: dict[tuple, tuple[dict[str, Any], Lazy]] = {}
-        for key, (corner, at) in zip(keys, wanted):
-            if key in self._inside or key in todo:
-                continue
-            values: dict[str, Any] = {}
-            for p, e in corner.items():
-                values[p] = self.end(p, e)
-            values.update(at)
-            todo[key] = (values, point_label(dict(at), self.units, dict(corner)))
-        if todo:
-            made = self.batch([v for v, _ in todo.values()], [lb for _, lb in todo.values()])
-            self._inside.update(zip(todo, made))
-        return [self._inside[k] for k in keys]
+        return self.fetch((), wanted)[1]
 
     def corners_at(self, assigns: Iterable[Iterable[tuple[str, str]]]) -> list[Run]:
         """The kept corner runs of many corners (see :meth:`corner`), in the order asked; those
         not made yet are made in one :meth:`batch` call (an array-evaluating derive module runs
         once for all of them; the other modules share replay as in single runs)."""
+        return self.fetch(assigns, ())[0]
+
+    def fetch(self, assigns: Iterable[Iterable[tuple[str, str]]],
+              wanted: Iterable[tuple[dict[str, str], dict[str, float]]]
+              ) -> tuple[list[Run], list[Run]]:
+        """Kept corner runs (as :meth:`corners_at`) and kept inside runs (as :meth:`insides`),
+        in the order asked; every one not made yet is made in one :meth:`batch` call."""
         keys = [tuple(sorted(a)) for a in assigns]
         todo: dict[Assign, dict[str, Any]] = {}
         for key in keys:
@@ -318,13 +311,27 @@ class Runner:
             if not key:  # the typical run is made first, in __init__: never here
                 continue
             todo[key] = {p: self.end(p, e) for p, e in key}
-        if len(todo) == 1:
+        wanted = list(wanted)
+        inside_keys = [(tuple(sorted(corner.items())), tuple(sorted(at.items())))
+                       for corner, at in wanted]
+        todo_in: dict[tuple, tuple[dict[str, Any], Lazy]] = {}
+        for key, (corner, at) in zip(inside_keys, wanted):
+            if key in self._inside or key in todo_in:
+                continue
+            values: dict[str, Any] = {}
+            for p, e in corner.items():
+                values[p] = self.end(p, e)
+            values.update(at)
+            todo_in[key] = (values, point_label(dict(at), self.units, dict(corner)))
+        if len(todo) + len(todo_in) == 1 and todo:
             (key,) = todo
             self.corner(key)
-        elif todo:
-            made = self.batch(list(todo.values()), list(todo))
+        elif todo or todo_in:
+            made = self.batch([*todo.values(), *(v for v, _ in todo_in.values())],
+                              [*todo, *(lb for _, lb in todo_in.values())])
             self._corners.update(zip(todo, made))
-        return [self._corners[k] for k in keys]
+            self._inside.update(zip(todo_in, made[len(todo):]))
+        return [self._corners[k] for k in keys], [self._inside[k] for k in inside_keys]
 
     def point(self, at: dict[str, float], label: Assign = ()) -> Run:
         """A run with the toleranced inputs in ``at`` at the given values (a sample); not kept."""
@@ -507,15 +514,17 @@ class Runner:
         got = frozenset((kind, name) for kind, name, _ in actx.reads)
         self.read_fields.update(name for kind, name in got if kind == "v")
         missing = {k: v for k, v in actx.missing.items() if k not in first.missing}
+        # each result as plain Python values: one per point, or one for all
+        per_point: dict[str, list[Any]] = {}
+        shared: dict[str, Any] = {}
+        for k, v in new.items():
+            if isinstance(v, np.ndarray) and v.shape == (n,):
+                per_point[k] = v.tolist()
+            else:
+                shared[k] = v.item() if isinstance(v, np.ndarray) and v.ndim == 0 else v
         for i, c in enumerate(ctxs):
             for k, v in new.items():
-                if isinstance(v, np.ndarray) and v.shape == (n,):
-                    x = v[i].item()
-                elif isinstance(v, np.ndarray) and v.ndim == 0:
-                    x = v.item()
-                else:
-                    x = v
-                c.out[k] = x
+                c.out[k] = per_point[k][i] if k in per_point else shared[k]
             c.missing.update(missing)
             c.notes.update({k: t for k, v in actx.notes.items() if (t := _element(v, i, n))})
             reads[idx[i]].append(got)
@@ -564,6 +573,13 @@ def _column(name: str, ctxs: list[Ctx], np: Any) -> tuple[str, Any]:
     a bool array), ("numbers", a float array), or :data:`_SPLIT` where some point lacks it or
     the values are texts (or tables) that differ."""
     col = [c.out.get(name, _GONE) for c in ctxs]
+    first = col[0]
+    if type(first) is float and set(map(type, col)) == {float}:  # the common case, in C loops
+        a = np.array(col, dtype=float)
+        if (a == first).all():
+            return ("same", first)
+        a.setflags(write=False)
+        return ("numbers", a)
     if any(x is _GONE for x in col):
         return _SPLIT
     if all(_same_value(x, col[0]) for x in col):
@@ -649,7 +665,7 @@ def design_values(design: Any) -> tuple[dict[str, Any], dict[str, Span], dict[st
                 walk(value, type(value), path + ".")
                 continue
             if value is None:
-                sub = _submodel(info.annotation)
+                sub = _submodel(type(model), name, info.annotation)
                 if sub is not None:
                     _none_fields(sub, f"{path}.", values, units)
                     continue
@@ -689,7 +705,7 @@ def _none_fields(cls: Any, prefix: str, values: dict[str, Any], units: dict[str,
     from reviewer.design.fields import UnitTag
 
     for name, info in cls.model_fields.items():
-        sub = _submodel(info.annotation)
+        sub = _submodel(cls, name, info.annotation)
         if sub is not None:
             _none_fields(sub, f"{prefix}{name}.", values, units)
         else:
@@ -699,10 +715,20 @@ def _none_fields(cls: Any, prefix: str, values: dict[str, Any], units: dict[str,
                 units[f"{prefix}{name}"] = tag.unit
 
 
-def _submodel(annotation: Any) -> Any:
-    from reviewer.design.loader import _model_of
+_SUBMODELS: dict[tuple[type, str], Any] = {}
 
-    return _model_of(annotation)
+
+def _submodel(cls: type, name: str, annotation: Any) -> Any:
+    """The table model of field ``name`` of model ``cls`` (None for a value), found once per
+    model class: every runner of every trial design walks the same classes."""
+    key = (cls, name)
+    try:
+        return _SUBMODELS[key]
+    except KeyError:
+        from reviewer.design.loader import _model_of
+
+        got = _SUBMODELS[key] = _model_of(annotation)
+        return got
 
 
 def _unit_in_annotation(annotation: Any) -> Any:

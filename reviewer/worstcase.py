@@ -23,7 +23,7 @@ from __future__ import annotations
 import itertools
 import random
 import zlib
-from typing import Any
+from typing import Any, Generator
 
 import numpy as np
 
@@ -38,28 +38,56 @@ SAMPLED_VERTICES = 64
 ENDS = ("min", "max")
 
 
-def prefetch(compiled: list[Compiled], runner: Any) -> int:
-    """Make, in one :meth:`~reviewer.quantities.Runner.corners_at` batch, the one-at-a-time
-    ends and (for at most :data:`VERTEX_INPUTS` inputs) every vertex that each of the rules
-    ``compiled`` will be judged on: rules share corners, and an array-evaluating derive module
-    then runs once for all of them. :func:`runs_for` finds them made. How many corners asked."""
-    wanted: dict[tuple, None] = {}
-    for c in compiled:
-        if c.rule.kind == "question":
-            continue
-        deps = runner.deps(rule_names(c))
-        for p in deps:
-            for e in ENDS:
-                wanted[((p, e),)] = None
-        if len(deps) <= VERTEX_INPUTS:
-            for combo in itertools.product(ENDS, repeat=len(deps)):
-                wanted[tuple(sorted(zip(deps, combo)))] = None
-    runner.corners_at(list(wanted))
-    return len(wanted)
+Want = tuple[list[Any], list[tuple[dict[str, str], dict[str, float]]]]
+"""What one step of a search asks for: corners (as for :meth:`Runner.corners_at
+<reviewer.quantities.Runner.corners_at>`) and inside points (as for :meth:`Runner.insides
+<reviewer.quantities.Runner.insides>`)."""
+
+
+def search_all(compiled: list[Compiled], runner: Any) -> list[tuple[list[Any], str]]:
+    """:func:`runs_for` of every rule in ``compiled``, the searches run side by side: each
+    step asks for the runs it needs, and the steps of all the rules are made in one
+    :meth:`~reviewer.quantities.Runner.fetch` batch (the one-at-a-time ends and vertices of
+    every rule, then every rule's probes inside its inputs, then the first probes of each
+    input where the margin bends), so an array-evaluating derive module runs once per step for
+    all of them. The local search of a rule with more than :data:`VERTEX_INPUTS` inputs and
+    the Brent steps run within the rule's own step, one batch or run at a time. Rules share
+    corners; every run is kept by the runner, so each rule gets the runs it would get alone."""
+    searches = [_plan(c, runner) for c in compiled]
+    done: list[tuple[list[Any], str] | None] = [None] * len(searches)
+    asked: dict[int, Want] = {}
+    for i, g in enumerate(searches):
+        try:
+            asked[i] = next(g)
+        except StopIteration as stop:
+            done[i] = stop.value
+    while asked:
+        corners, points = runner.fetch([a for w in asked.values() for a in w[0]],
+                                       [x for w in asked.values() for x in w[1]])
+        step: dict[int, Want] = {}
+        i_c = i_p = 0
+        for i, (cw, pw) in asked.items():
+            answer = (corners[i_c:i_c + len(cw)], points[i_p:i_p + len(pw)])
+            i_c, i_p = i_c + len(cw), i_p + len(pw)
+            try:
+                step[i] = searches[i].send(answer)
+            except StopIteration as stop:
+                done[i] = stop.value
+        asked = step
+    return [d for d in done if d is not None]
 
 
 def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
     """The runs rule ``c`` is judged on, and a sentence saying how they were chosen."""
+    return search_all([c], runner)[0]
+
+
+def _plan(c: Compiled, runner: Any) -> Generator[Want, tuple[list[Any], list[Any]],
+                                                 tuple[list[Any], str]]:
+    """The search of :func:`runs_for`, as steps: yields what it wants made, is sent those runs,
+    returns the runs and the sentence."""
+    if c.rule.kind == "question":
+        return [runner.typical], NO_INPUTS
     deps = runner.deps(rule_names(c))
     typ = runner.typical
     k = len(deps)
@@ -68,17 +96,18 @@ def runs_for(c: Compiled, runner: Any) -> tuple[list[Any], str]:
     ends = [((p, e),) for p in deps for e in ENDS]
     if k <= VERTEX_INPUTS:
         vertices = [tuple(zip(deps, combo)) for combo in itertools.product(ENDS, repeat=k)]
-        got = runner.corners_at(ends + vertices)  # one batch for the ends and every vertex
+        got, _ = yield ends + vertices, []  # the ends and every vertex
         runs = [typ, *got]
         method = (f"worst of every vertex of the {k} toleranced input{'s' if k > 1 else ''}"
                   f" it depends on ({2 ** k} corners)")
     else:
-        runs, method = _search(c, runner, deps, [typ, *runner.corners_at(ends)])
-    return _interior(c, runner, deps, runs, method)
+        got, _ = yield ends, []
+        runs, method = _search(c, runner, deps, [typ, *got])
+    return (yield from _interior(c, runner, deps, runs, method))
 
 
-def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
-              method: str) -> tuple[list[Any], str]:
+def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any], method: str
+              ) -> Generator[Want, tuple[list[Any], list[Any]], tuple[list[Any], str]]:
     """Where the margin is smallest inside an input's tolerance rather than at an end, search
     that input by Brent's minimisation with the others at the worst corner found: a margin that is
     not monotonic in an input (a ripple current that peaks at a middle modulation index, say)
@@ -87,7 +116,7 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
     that bends down between them), else at :data:`EDGE_LEVELS`, just inside each end (a margin
     that dips there, distortion where pulses start to be dropped near the top of the index
     range, shows no bend at typical; the chord test alone missed it). The yield self-check
-    covers what the probes miss."""
+    covers what the probes miss. Steps as in :func:`_plan`."""
     score = margins(c, runs).score
     worst = runs[int(np.argmin(score))]
     corner = dict(worst.label) if all(e in ENDS for _, e in worst.label) else {}
@@ -106,17 +135,19 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
         # (one end not applicable or not computable, a thermal runaway say: the margin may
         # fall all the way to that edge, so the whole inside is probed)
         probed.append((p, levels))
-    # every input's probes and ends in one batch (an array-evaluating module runs once for all)
-    probes = runner.insides([({}, {p: runner.spans[p].lo + t * (runner.spans[p].hi
-                                                                  - runner.spans[p].lo)})
-                             for p, levels in probed for t in levels])
-    ends = runner.corners_at(((p, e),) for p, _ in probed for e in ENDS)
+    if not probed:
+        return runs, method
+    # every input's probes and ends in one step
+    ends, probes = yield ([((p, e),) for p, _ in probed for e in ENDS],
+                          [({}, {p: _level(runner, p, t)}) for p, levels in probed
+                           for t in levels])
     bent: list[str] = []
-    start = 0
+    scores = margins(c, [*probes, *ends]).score  # one run's margin is its own: one call for all
+    start, outer_at = 0, len(probes)
     for k, (p, levels) in enumerate(probed):
-        inner = margins(c, probes[start:start + len(levels)]).score
+        inner = scores[start:start + len(levels)]
         start += len(levels)
-        outer = margins(c, ends[k * len(ENDS):(k + 1) * len(ENDS)]).score
+        outer = scores[outer_at + k * len(ENDS):outer_at + (k + 1) * len(ENDS)]
         inner, outer = inner[inner < np.inf], outer[outer < np.inf]  # where it applies
         if inner.size and outer.size and inner.min() < outer.min() - _tiny(outer):
             bent.append(p)
@@ -125,19 +156,26 @@ def _interior(c: Compiled, runner: Any, deps: tuple[str, ...], runs: list[Any],
     fixed = {p: e for p, e in corner.items() if p not in bent}
     at: dict[str, float] = {}
     for p in bent:
-        s = runner.spans[p]
-
         def f(t: float) -> float:
-            run = runner.inside(fixed, {**at, p: s.lo + t * (s.hi - s.lo)})
+            run = runner.inside(fixed, {**at, p: _level(runner, p, t)})
             runs.append(run)
             return float(margins(c, [run]).score[0])
 
-        first = runner.insides([(fixed, {**at, p: s.lo + t * (s.hi - s.lo)}) for t in LEVELS])
-        runs.extend(first)  # the probes in one batch, then the minimisation one by one
+        _, first = yield [], [(fixed, {**at, p: _level(runner, p, t)}) for t in LEVELS]
+        # the probes in one step (with the other rules' probes), then the minimisation one run
+        # at a time (side by side with the other rules', its runs were measured slower: their
+        # points differ in every input, and array calls split)
+        runs.extend(first)
         t = _minimise(f, [float(x) for x in margins(c, first).score])
-        at[p] = s.lo + t * (s.hi - s.lo)
+        at[p] = _level(runner, p, t)
     return runs, method + (f", and inside the tolerance of {', '.join(bent)} where the margin "
                            "is smallest away from its ends (Brent's minimisation)")
+
+
+def _level(runner: Any, p: str, t: float) -> float:
+    """Input ``p`` at the fraction ``t`` of its tolerance from min to max."""
+    s = runner.spans[p]
+    return s.lo + t * (s.hi - s.lo)
 
 
 EDGE_LEVELS = (0.02, 0.98)

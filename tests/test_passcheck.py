@@ -167,3 +167,82 @@ def test_a_pass_value_is_near_the_least_change_that_passes(name):
         _, example, changes = next(v for v in VARIANTS if v[0] == name)
         review, source = variant_review(name), (example, changes)
     assert _overshoots(review, source) == []
+
+
+# --- closing in on the least change that passes (passcheck._closer) --------------------------
+
+def _margin_trial(margin, guide=None):
+    """A trial for :func:`passcheck._closer` from a margin function: passes where the margin is
+    not negative; the margin it reports is ``guide(x)`` (the early stop's, say) or the margin
+    itself, None for a flag rule. Counts its calls."""
+    calls = []
+
+    def trial(x):
+        calls.append(x)
+        m = margin(x)
+        shown = None if guide is False else (guide or margin)(x)
+        return m >= 0, shown
+    return trial, calls
+
+
+def _bisections(fail_x, pass_x):
+    """Trials plain bisection in log x takes to bring the two within CLOSE."""
+    n = 0
+    while abs(pass_x - fail_x) > passcheck.CLOSE * abs(pass_x):
+        mid = math.sqrt(fail_x * pass_x)
+        fail_x, pass_x = (fail_x, mid) if n % 2 else (mid, pass_x)  # either side: same count
+        n += 1
+    return n
+
+
+@pytest.mark.parametrize("case", [
+    # (margin, fail_x, pass_x): increasing and decreasing, smooth, steep, stepped, kinked
+    (lambda x: (x - 7.3) / 7.3, 1.0, 40.0),
+    (lambda x: (2.1e-7 - x) / 2.1e-7, 9e-7, 1e-9),
+    (lambda x: math.log(x / 0.52), 0.01, 3.0),
+    (lambda x: (x / 5.0) ** 3 - 1, 2.0, 60.0),
+    (lambda x: -0.5 if x < 4.4 else 0.5, 1.0, 9.0),
+    (lambda x: -1.0 + 0.1 * x if x < 12.0 else 0.2, 2.0, 30.0),
+    (lambda x: 1 / 0.3 - 1 / x, 0.05, 5.0),
+    (lambda x: 0.3 - 1 / x, 5.0, 0.05),
+])
+def test_the_bracket_closes_on_the_root_a_root_finder_gives(case):
+    # reference: scipy.optimize.brentq on the same margin (the least passing value is its root)
+    from scipy.optimize import brentq
+
+    margin, fail_x, pass_x = case
+    trial, calls = _margin_trial(margin)
+    lo, hi = passcheck._closer(trial, fail_x, pass_x)
+    assert margin(lo) < 0 <= margin(hi)  # still a bracket: failing, passing
+    assert abs(hi - lo) <= passcheck.CLOSE * abs(hi)
+    a, b = sorted((fail_x, pass_x))
+    root = brentq(margin, a, b, xtol=1e-14 * b) if margin(a) * margin(b) < 0 else None
+    if root is not None and margin(root - 1e-12 * abs(root)) * margin(root + 1e-9 * abs(root)) < 0:
+        assert min(lo, hi) - 1e-9 * abs(root) <= root <= max(lo, hi) + 1e-9 * abs(root)
+    # never more trials than bisection takes, bar the two ends' margins
+    assert len(calls) - 2 <= _bisections(fail_x, pass_x)
+
+
+def test_a_smooth_margin_is_bracketed_in_fewer_trials_than_bisection_takes():
+    for margin, a, b in (((lambda x: (x - 7.3) / 7.3), 1.0, 40.0),
+                         ((lambda x: math.log(x / 0.52)), 0.01, 3.0)):
+        trial, calls = _margin_trial(margin)
+        passcheck._closer(trial, a, b)
+        assert len(calls) - 2 <= 5 < _bisections(a, b)
+
+
+def test_a_flag_rule_or_an_optimistic_guide_still_closes_the_bracket():
+    def margin(x):
+        return (x - 3.3) / 3.3
+    for guide in (False, lambda x: margin(x) / 2 + (0.3 if x < 3.3 else 0.0)):
+        trial, calls = _margin_trial(margin, guide)
+        lo, hi = passcheck._closer(trial, 0.5, 20.0)
+        assert margin(lo) < 0 <= margin(hi)
+        assert abs(hi - lo) <= passcheck.CLOSE * abs(hi)
+        assert len(calls) - 2 <= 2 * _bisections(0.5, 20.0)
+
+
+def test_the_bracket_closes_across_zero_without_logarithms():
+    trial, _ = _margin_trial(lambda x: x - 0.75)
+    lo, hi = passcheck._closer(trial, -2.0, 6.0)
+    assert lo < 0.75 <= hi and abs(hi - lo) <= passcheck.CLOSE * abs(hi)

@@ -141,7 +141,7 @@ def _walk_types(cls: Any, prefix: str, out: dict[str, Type]) -> None:
     from reviewer.quantities import _submodel
 
     for name, info in cls.model_fields.items():
-        sub = _submodel(info.annotation)
+        sub = _submodel(cls, name, info.annotation)
         if sub is not None:
             _walk_types(sub, f"{prefix}{name}.", out)
             continue

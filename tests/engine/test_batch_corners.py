@@ -186,3 +186,27 @@ def test_pass_check_judges_on_the_modules_the_rule_reads_alone():
         if _fails_somewhere(c, compute(d, ends=False, modules=mods).runner):
             assert a.outcome == "fail", c.rule.id
     assert shorter > 0
+
+
+def test_fetch_makes_corners_and_inside_points_in_one_batch():
+    # the oracle: the same corners and inside points made one at a time, without replay
+    d = load_design(CAREFUL)
+    ref, batched = Runner(d, replay=False), Runner(d)
+    tol = batched.tol[:3]
+    corners = [tuple(zip(tol, combo)) for combo in itertools.product(("min", "max"), repeat=3)]
+    s = batched.spans["timing.dead_time"]
+    wanted = [({tol[0]: "max"}, {"timing.dead_time": s.lo + t * (s.hi - s.lo)})
+              for t in (0.2, 0.7)]
+    calls = []
+    real = batched.batch
+    batched.batch = lambda *a, **k: calls.append(len(a[0])) or real(*a, **k)
+    got_c, got_i = batched.fetch(corners + corners[:1], wanted + wanted[:1])
+    assert calls == [len(corners) + len(wanted)]  # one batch, each point once
+    assert len(got_c) == len(corners) + 1 and len(got_i) == len(wanted) + 1
+    assert got_c[-1] is got_c[0] and got_i[-1] is got_i[0]
+    for key, run in zip(corners, got_c):
+        same(run, ref.corner(key))
+    for (corner, at), run in zip(wanted, got_i):
+        same(run, ref.inside(corner, at))
+    assert batched.fetch(corners, wanted)[0] == got_c[:-1]  # kept: nothing made again
+    assert calls == [len(corners) + len(wanted)]

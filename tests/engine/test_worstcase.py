@@ -208,3 +208,25 @@ def test_interior_minimisation_against_scipy(fn):
     assert fn(t) <= min(probes)  # never worse than the best probe
     assert fn(t) <= ref.fun + 1e-3 * (max(probes) - min(probes)) + 1e-9
     assert len(calls) <= 16  # golden section alone took 14 here
+
+
+@pytest.mark.parametrize("name", ["careful_12v_sine", "naive_bench_pchannel",
+                                  "mains_output_transformer", "nchannel_bootstrap_quasi"])
+def test_the_searches_side_by_side_equal_each_rule_searched_alone(book, name):
+    # the oracle: the rules searched one after another, each to its end before the next
+    # starts (no point batched with another rule's): the same runs, in the same order, the
+    # same method sentence and the same margins (to the batching's floating-point noise)
+    from reviewer.design import load_design
+    from reviewer.worstcase import runs_for, search_all
+
+    design = load_design(EXAMPLES / f"{name}.toml")
+    rules = [c for c in book.compiled if c.rule.kind != "question"]
+    together = search_all(rules, Runner(design))
+    assert len(together) == len(rules)
+    one_by_one = Runner(design)
+    for c, (runs, method) in zip(rules, together):
+        alone, how = runs_for(c, one_by_one)
+        assert how == method, c.rule.id
+        assert [r.label for r in runs] == [r.label for r in alone], c.rule.id
+        a, b = margins(c, runs).score, margins(c, alone).score
+        assert a.tolist() == pytest.approx(b.tolist(), rel=1e-9, abs=1e-12), c.rule.id
